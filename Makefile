@@ -1,0 +1,55 @@
+# Two commands do all set-up on a fresh machine:
+#   make serve   build the demo handbook and serve it on 127.0.0.1:8000
+#   make test    install what the tests need and run every tier
+PY      ?= python3
+VENV    := .venv
+BIN     := $(VENV)/bin
+PORT    ?= 8000
+DEPS    := $(VENV)/.deps-stamp
+NODE    := node_modules/.stamp
+SYSTEM  := $(VENV)/.system-stamp
+
+.PHONY: serve build test test-fast lint bench system clean
+
+$(BIN)/python:
+	$(PY) -m venv $(VENV)
+
+$(DEPS): requirements-dev.txt pyproject.toml calc/pyproject.toml | $(BIN)/python
+	$(BIN)/pip install -q --disable-pip-version-check -r requirements-dev.txt -e ./calc -e .
+	touch $@
+
+# Debian packages: ngspice (reference simulator) and chromium (browser tests).
+$(SYSTEM): | $(BIN)/python
+	@if ! command -v ngspice >/dev/null || ! test -x /usr/bin/chromium; then \
+	  if [ "$$(id -u)" = 0 ]; then apt-get update -qq && DEBIAN_FRONTEND=noninteractive apt-get install -y -qq ngspice chromium >/dev/null; \
+	  else sudo apt-get update -qq && sudo DEBIAN_FRONTEND=noninteractive apt-get install -y -qq ngspice chromium >/dev/null; fi; fi
+	touch $@
+
+$(NODE): package.json package-lock.json
+	npm ci --no-audit --no-fund --loglevel=error
+	touch $@
+
+system: $(SYSTEM)
+
+build: $(DEPS) $(NODE)
+	$(BIN)/mkdocs build --strict
+
+serve: build
+	@echo "Serving the handbook on http://127.0.0.1:$(PORT)/"
+	$(BIN)/python -m http.server $(PORT) --bind 127.0.0.1 --directory site
+
+lint: $(DEPS)
+	$(BIN)/ruff check calc lampbook tests bench
+	$(BIN)/mypy
+
+test: $(DEPS) $(NODE) $(SYSTEM) lint
+	$(BIN)/python -m pytest
+
+test-fast: $(DEPS)
+	$(BIN)/python -m pytest -m "not spice and not pyodide and not browser"
+
+bench: $(DEPS) $(NODE) $(SYSTEM)
+	$(BIN)/python bench/run.py
+
+clean:
+	rm -rf site build .pytest_cache .hypothesis

@@ -1,0 +1,216 @@
+"""Fixture design files: one TOML document describes a whole fixture.
+
+Values are plain SI numbers or strings with units ("4.7 uF", "230 V").
+Unknown keys, missing keys and wrong units are errors naming the key.
+The text is parsed here (``tomllib`` is in the standard library); reading the
+file is the caller's business.
+"""
+
+from __future__ import annotations
+
+import math
+import tomllib
+from collections.abc import Mapping
+from dataclasses import dataclass, replace
+from typing import Any
+
+from .errors import InputError, InputErrors
+from .led import LedModule
+from .steady import Bridge, Circuit, StringLoad
+from .units import parse
+
+# table -> key -> (dimension, required, default)
+Spec = dict[str, tuple[str, bool, object]]
+
+SCHEMA: dict[str, Spec] = {
+    "": {"name": ("text", True, None), "revision": ("text", False, "1"), "date": ("text", False, ""),
+         "description": ("text", False, ""), "ambient": ("temperature", False, 25.0)},
+    "mains": {"voltage": ("voltage", True, None), "frequency": ("frequency", True, None),
+              "tolerance": ("ratio", False, 0.10), "tolerance_minus": ("ratio", False, None)},
+    "module": {"v0": ("voltage", False, None), "r_dynamic": ("resistance", False, None), "points": ("points", False, None),
+               "current_max": ("current", True, None), "vf_tempco": ("tempco", False, -0.003),
+               "vf_spread": ("ratio", False, 0.0), "temperature": ("temperature", False, 25.0), "name": ("text", False, "")},
+    "array": {"series": ("count", True, None), "parallel": ("count", False, 1.0), "ballast": ("resistance", False, 0.0),
+              "offsets": ("voltages", False, None)},
+    "dropper": {"capacitance": ("capacitance", False, None), "tolerance": ("ratio", False, 0.10),
+                "series_resistance": ("resistance", False, 0.0), "bleeder": ("resistance", False, None)},
+    "bridge": {"model": ("text", False, "line"), "drop": ("voltage", False, 0.9), "resistance": ("resistance", False, 0.05),
+               "saturation_current": ("current", False, 1e-9), "emission_coefficient": ("count", False, 1.8),
+               "temperature": ("temperature", False, 25.0)},
+    "smoothing": {"capacitance": ("capacitance", True, None), "esr": ("resistance", False, 0.0),
+                  "bleeder": ("resistance", False, None), "voltage_rating": ("voltage", False, None)},
+}  # fmt: skip
+REQUIRED_TABLES = ("mains", "module", "array", "smoothing")
+
+#: Extra tables a later layer (the design review) may declare; they are
+#: checked by their owner and passed through untouched here.
+EXTENSIONS: dict[str, Spec] = {}
+
+
+@dataclass(frozen=True)
+class Design:
+    name: str
+    revision: str
+    date: str
+    description: str
+    values: Mapping[str, Mapping[str, Any]]  # parsed, SI
+
+    def get(self, table: str, key: str) -> Any:
+        return self.values.get(table, {}).get(key)
+
+    @property
+    def module(self) -> LedModule:
+        m = self.values["module"]
+        pts = m.get("points")
+        kw = {"current_max": m["current_max"], "vf_tempco": m["vf_tempco"], "vf_spread": m["vf_spread"]}
+        if pts:
+            (i1, v1), (i2, v2) = pts
+            return LedModule.from_points(i1, v1, i2, v2, **kw)
+        return LedModule(v0=m["v0"], r_dynamic=m["r_dynamic"], **kw)
+
+    @property
+    def has_dropper(self) -> bool:
+        return self.get("dropper", "capacitance") is not None
+
+    def mains_band(self) -> tuple[float, float, float]:
+        v = self.values["mains"]["voltage"]
+        plus = self.values["mains"]["tolerance"]
+        minus = self.values["mains"]["tolerance_minus"]
+        minus = plus if minus is None else minus
+        return v, v * (1 - minus), v * (1 + plus)
+
+    def circuit(
+        self,
+        mains_voltage: float | None = None,
+        dropper_scale: float = 1.0,
+        vf_corner: int = 0,
+        temperature: float | None = None,
+        frequency: float | None = None,
+    ) -> Circuit:
+        """The circuit at a corner: mains, dropper capacitance scale, Vf end
+        of the band (-1/0/+1), module temperature."""
+        mod = self.module
+        arr = self.values["array"]
+        s, p = int(arr["series"]), int(arr["parallel"])
+        t = self.values["module"]["temperature"] if temperature is None else temperature
+        i_ref = mod.current_max
+        mod = replace(mod, current_ref=i_ref)
+        knee = s * mod.v0_at(t, vf_corner)
+        res = s * mod.r_dynamic + arr["ballast"]
+        offsets = arr.get("offsets")
+        if offsets:
+            groups: dict[float, int] = {}
+            for o in offsets:
+                groups[o] = groups.get(o, 0) + 1
+            loads = tuple(StringLoad(knee + o, res, n, arr["ballast"]) for o, n in sorted(groups.items()))
+        else:
+            loads = (StringLoad(knee, res, p, arr["ballast"]),)
+        br = self.values["bridge"]
+        bridge = Bridge(kind=br["model"], drop=br["drop"], resistance=br["resistance"], saturation_current=br["saturation_current"],
+                        emission_coefficient=br["emission_coefficient"], temperature=br["temperature"])  # fmt: skip
+        d = self.values.get("dropper", {})
+        sm = self.values["smoothing"]
+        cap = d.get("capacitance")
+        return Circuit(
+            mains_voltage=self.values["mains"]["voltage"] if mains_voltage is None else mains_voltage,
+            frequency=self.values["mains"]["frequency"] if frequency is None else frequency,
+            series_resistance=d.get("series_resistance", 0.0) or 0.0,
+            dropper=cap * dropper_scale if cap else None,
+            dropper_bleeder=d.get("bleeder"),
+            bridge=bridge,
+            smoothing=sm["capacitance"],
+            esr=sm["esr"],
+            bleeder=sm.get("bleeder"),
+            strings=loads,
+        )
+
+
+def _value(dim: str, raw: object, key: str) -> object:
+    if dim == "text":
+        if not isinstance(raw, str):
+            raise InputError(key, raw, "text in quotes")
+        return raw
+    if dim == "points":
+        if not (isinstance(raw, list) and len(raw) == 2 and all(isinstance(p, list) and len(p) == 2 for p in raw)):
+            raise InputError(key, raw, 'two [current, voltage] pairs such as [["20 mA", "2.9 V"], ["60 mA", "3.1 V"]]')
+        return [(parse(p[0], "current", key), parse(p[1], "voltage", key)) for p in raw]
+    if dim == "voltages":
+        if not isinstance(raw, list):
+            raise InputError(key, raw, 'a list of voltages such as ["0 V", "0.5 V"]')
+        return [parse(v, "voltage", key) for v in raw]
+    x = parse(raw, dim, key)
+    if not math.isfinite(x):
+        raise InputError(key, raw, "a finite value")
+    if dim == "count" and key.endswith(("series", "parallel")):
+        if x != int(x) or x < 1:
+            raise InputError(key, raw, "a whole number of 1 or more")
+    return x
+
+
+def parse_design(text: str) -> Design:
+    """Parse and check a design; every problem is collected and reported."""
+    try:
+        doc = tomllib.loads(text)
+    except tomllib.TOMLDecodeError as e:
+        raise InputError("design", "TOML", f"valid TOML ({e})") from None
+    errors: list[InputError] = []
+    values: dict[str, dict[str, Any]] = {}
+    schema = {**SCHEMA, **EXTENSIONS}
+    top = {k: v for k, v in doc.items() if not isinstance(v, dict)}
+    tables = {k: v for k, v in doc.items() if isinstance(v, dict)}
+    for k in tables:
+        if k not in schema or k == "":
+            errors.append(InputError(f"[{k}]", "table", "one of the tables " + ", ".join(f"[{t}]" for t in schema if t)))
+    for t in REQUIRED_TABLES:
+        if t not in tables:
+            errors.append(InputError(f"[{t}]", "missing", f"a [{t}] table"))
+    for table, spec in schema.items():
+        given = top if table == "" else tables.get(table)
+        if given is None:
+            if table in EXTENSIONS or table in ("dropper", "bridge"):
+                given = {}
+            else:
+                continue
+        out: dict[str, Any] = {}
+        for key in given:
+            if key not in spec:
+                label = key if table == "" else f"{table}.{key}"
+                errors.append(InputError(label, given[key], f"one of the keys of [{table or 'top level'}]: " + ", ".join(spec)))
+        for key, (dim, required, default) in spec.items():
+            label = key if table == "" else f"{table}.{key}"
+            if key in given:
+                try:
+                    out[key] = _value(dim, given[key], label)
+                except InputError as e:
+                    errors.append(e)
+            elif required:
+                errors.append(InputError(label, "missing", f"a value for {label}"))
+            else:
+                out[key] = default
+        values[table] = out
+    m = values.get("module", {})
+    if m and not m.get("points") and (m.get("v0") is None or m.get("r_dynamic") is None):
+        errors.append(InputError("module.v0", "missing", "module.v0 and module.r_dynamic, or module.points"))
+    br = values.get("bridge", {})
+    if br.get("model") not in ("line", "exponential"):
+        errors.append(InputError("bridge.model", br.get("model"), "'line' or 'exponential'"))
+    arr = values.get("array", {})
+    offs = arr.get("offsets")
+    if offs is not None and arr.get("parallel") is not None and len(offs) != int(arr["parallel"]):
+        errors.append(InputError("array.offsets", f"{len(offs)} values", f"one offset per string ({int(arr['parallel'])})"))
+    if errors:
+        raise errors[0] if len(errors) == 1 else InputErrors(errors)
+    top_v = values.pop("")
+    d = Design(str(top_v["name"]), str(top_v["revision"]), str(top_v["date"]), str(top_v["description"]),
+               {**values, "": top_v})  # fmt: skip
+    try:
+        d.module  # noqa: B018 - validates the module line
+        d.circuit().validate()
+    except InputError as e:
+        raise InputError(_design_key(e.field), e.value, e.expected) from None
+    return d
+
+
+def _design_key(field: str) -> str:
+    return {"v0": "module.v0", "r_dynamic": "module.r_dynamic", "points": "module.points", "current_max": "module.current_max",
+            "vf_spread": "module.vf_spread", "vf_tempco": "module.vf_tempco"}.get(field, field)  # fmt: skip

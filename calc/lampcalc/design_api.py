@@ -1,0 +1,23 @@
+"""Design requests of the JSON entry point (see :mod:`lampcalc.api`)."""
+
+from __future__ import annotations
+
+from typing import Any
+
+from .check import check
+from .design import parse_design
+from .errors import CalcError, InputError, InputErrors, NoSolutionError
+
+
+def handle(kind: str, req: dict[str, Any]) -> dict[str, Any]:
+    try:
+        if kind == "check":
+            d = parse_design(str(req.get("toml", "")))
+            return {"ok": True, **check(d, waveforms=bool(req.get("waveforms")))}
+        raise InputError("kind", kind, "one of describe, compute, check")
+    except InputErrors as e:
+        return {"ok": False, "errors": [x.as_dict() for x in e.errors]}
+    except (InputError, NoSolutionError) as e:
+        return {"ok": False, "errors": [e.as_dict()]}
+    except CalcError as e:
+        return {"ok": False, "errors": [{"field": "", "value": "", "expected": "", "message": str(e)}]}

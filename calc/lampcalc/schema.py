@@ -1,0 +1,222 @@
+"""Declarations: one per calculator, from which the command line, the page
+form, validation and the docs tables are all generated.
+
+A calculator declares its inputs (``Param``: name, label, dimension, default
+as the user would type it, limits in SI, help) and its outputs (``Output``),
+and names a pure function from the parsed inputs (SI floats, strings for
+choices) to a ``Result``.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Callable, Mapping
+from dataclasses import dataclass
+from typing import Union
+
+from . import cautions
+from .errors import InputError, InputErrors
+from .regions import PRESETS
+from .units import format_value, parse
+
+Value = Union[float, str, None]
+
+
+@dataclass(frozen=True)
+class Param:
+    name: str
+    label: str
+    dim: str  # a units dimension, "choice", "region" or "text"
+    default: str | None  # as typed; None: optional, absent unless given
+    help: str
+    minimum: float | None = None  # SI
+    maximum: float | None = None  # SI
+    choices: tuple[str, ...] = ()
+    modes: tuple[str, ...] = ()  # shown only when the calculator's mode param has one of these values
+    imperial: str | None = None  # default on the imperial side of the unit switch
+    exclusive_min: bool = False
+
+    @property
+    def optional(self) -> bool:
+        return self.default is None
+
+
+@dataclass(frozen=True)
+class Output:
+    name: str
+    label: str
+    dim: str  # a units dimension, or "text"
+    help: str = ""
+
+
+@dataclass(frozen=True)
+class Result:
+    values: Mapping[str, Value]
+    rows: tuple[Mapping[str, Value], ...] = ()
+    notes: tuple[str, ...] = ()
+    warnings: tuple[str, ...] = ()
+
+
+@dataclass(frozen=True)
+class Calculator:
+    name: str
+    title: str
+    summary: str
+    params: tuple[Param, ...]
+    outputs: tuple[Output, ...]
+    compute: Callable[[Mapping[str, Value]], Result]
+    mains: bool = False
+    mode: str | None = None  # name of the param that picks a mode
+    columns: tuple[Output, ...] = ()  # the table of options, if any
+    plots: tuple[str, ...] = ()  # names of sweeps the page may draw
+
+    def param(self, name: str) -> Param:
+        for p in self.params:
+            if p.name == name:
+                return p
+        raise KeyError(name)
+
+    @property
+    def cautions(self) -> tuple[str, ...]:
+        return cautions.MAINS if self.mains else ()
+
+
+def _check_range(p: Param, raw: object, x: float) -> None:
+    lo, hi = p.minimum, p.maximum
+    if lo is not None and (x < lo or (p.exclusive_min and x <= lo)):
+        bound = format_value(lo, p.dim) if p.dim not in ("choice", "region") else str(lo)
+        raise InputError(p.name, raw, f"{'more than' if p.exclusive_min else 'at least'} {bound}")
+    if hi is not None and x > hi:
+        raise InputError(p.name, raw, f"at most {format_value(hi, p.dim)}")
+
+
+def parse_inputs(calc: Calculator, raw: Mapping[str, object]) -> dict[str, Value]:
+    """Parse and check every input; collect every problem before raising."""
+    errors: list[InputError] = []
+    known = {p.name for p in calc.params}
+    for key in raw:
+        if key not in known:
+            errors.append(InputError(key, raw[key], "one of the inputs of " + calc.name + ": " + ", ".join(sorted(known))))
+    out: dict[str, Value] = {}
+    region_key = None
+    for p in calc.params:
+        given = raw.get(p.name)
+        if given is None or (isinstance(given, str) and given.strip() == ""):
+            given = p.default
+        if given is None:
+            out[p.name] = None
+            continue
+        try:
+            if p.dim == "text":
+                out[p.name] = str(given)
+                continue
+            if p.dim in ("choice", "region"):
+                text = str(given).strip()
+                allowed = p.choices if p.dim == "choice" else (*PRESETS, "custom")
+                if text not in allowed:
+                    raise InputError(p.name, given, "one of " + ", ".join(allowed))
+                out[p.name] = text
+                if p.dim == "region":
+                    region_key = text
+                continue
+            x = parse(given, p.dim, p.name)
+            if not math.isfinite(x):
+                raise InputError(p.name, given, "a finite value")
+            _check_range(p, given, x)
+            if p.dim == "count" and x != int(x):
+                raise InputError(p.name, given, "a whole number")
+            out[p.name] = x
+        except InputError as e:
+            errors.append(e)
+    if region_key and region_key != "custom":
+        preset = PRESETS[region_key]
+        for name, value in (("mains_voltage", preset.voltage), ("frequency", preset.frequency)):
+            if name in known and raw.get(name) in (None, ""):
+                out[name] = value
+        if "mains_tolerance" in known and raw.get("mains_tolerance") in (None, ""):
+            out["mains_tolerance"] = max(preset.plus, preset.minus)
+            out["mains_plus"] = preset.plus
+            out["mains_minus"] = preset.minus
+    for name in ("mains_voltage", "frequency"):
+        if name in known and out.get(name) is None and not any(e.field == name for e in errors):
+            errors.append(InputError(name, "", "a value, or a region preset other than custom"))
+    if "mains_tolerance" in known and out.get("mains_tolerance") is not None and "mains_plus" not in out:
+        out["mains_plus"] = out["mains_minus"] = out["mains_tolerance"]
+    if errors:
+        raise errors[0] if len(errors) == 1 else InputErrors(errors)
+    return out
+
+
+def evaluate(calc: Calculator, raw: Mapping[str, object]) -> Result:
+    return calc.compute(parse_inputs(calc, raw))
+
+
+def format_output(o: Output, v: Value, digits: int | None = 4) -> str:
+    if v is None:
+        return "—"
+    if isinstance(v, str) or o.dim == "text":
+        return str(v)
+    if isinstance(v, float) and math.isinf(v):
+        return "unbounded"
+    return format_value(float(v), o.dim, digits)
+
+
+def to_json(calc: Calculator, result: Result) -> dict[str, object]:
+    """The JSON shape every front end reads: raw SI values, the same values
+    formatted for reading, the option table, notes, warnings and cautions."""
+
+    def clean(v: Value) -> Value:
+        if isinstance(v, float) and not math.isfinite(v):
+            return None
+        return v
+
+    return {
+        "calculator": calc.name,
+        "ok": True,
+        "values": {o.name: clean(result.values.get(o.name)) for o in calc.outputs},
+        "display": {o.name: format_output(o, result.values.get(o.name)) for o in calc.outputs},
+        "rows": [{c.name: clean(r.get(c.name)) for c in calc.columns} for r in result.rows],
+        "rows_display": [{c.name: format_output(c, r.get(c.name)) for c in calc.columns} for r in result.rows],
+        "notes": list(result.notes),
+        "warnings": list(result.warnings),
+        "cautions": list(calc.cautions),
+    }
+
+
+def describe(calc: Calculator) -> dict[str, object]:
+    """The declaration as JSON, for the page form and the docs table."""
+    return {
+        "name": calc.name,
+        "title": calc.title,
+        "summary": calc.summary,
+        "mains": calc.mains,
+        "mode": calc.mode,
+        "params": [
+            {
+                "name": p.name,
+                "label": p.label,
+                "dim": p.dim,
+                "default": p.default,
+                "imperial": p.imperial,
+                "help": p.help,
+                "choices": list(p.choices) if p.dim == "choice" else ([*PRESETS, "custom"] if p.dim == "region" else []),
+                "modes": list(p.modes),
+                "minimum": p.minimum,
+                "maximum": p.maximum,
+            }
+            for p in calc.params
+        ],
+        "outputs": [{"name": o.name, "label": o.label, "dim": o.dim, "help": o.help} for o in calc.outputs],
+        "columns": [{"name": o.name, "label": o.label, "dim": o.dim} for o in calc.columns],
+        "plots": list(calc.plots),
+    }
+
+
+def region_presets() -> dict[str, dict[str, object]]:
+    return {
+        k: {"voltage": format_value(p.voltage, "voltage"), "frequency": format_value(p.frequency, "frequency"),
+            "tolerance": format_value(max(p.plus, p.minus), "ratio"), "label": p.label, "source": p.source}
+        for k, p in PRESETS.items()
+    }  # fmt: skip
+
+

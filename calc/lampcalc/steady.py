@@ -1,0 +1,663 @@
+"""Exact periodic steady state of a mains-fed LED array.
+
+Circuit: sinusoidal mains -> series resistor -> dropper capacitor (optional,
+with its bleeder) -> full bridge -> bus: smoothing capacitor (with ESR) in
+parallel with a bleeder and the LED strings (each a knee voltage and a
+resistance, from the module line, its ballast and an optional offset).
+
+Method. Every element is piecewise linear: the straight-line diode exactly,
+the exponential diode through a chord table fine enough that its voltage error
+stays in the millivolts. Between events (a diode pair starting or stopping
+conduction, a chord boundary, a string crossing its knee) the circuit is a
+linear two-state system driven by a sine, solved in closed form from the
+eigenvalues of its 2x2 matrix. Events are located by bracketing on a grid and
+refining by bisection, so sharp turn-ons (no series resistor) are resolved to
+the limit of floating point, not to a step size. The bridge is symmetric, so
+the state after half a period is the mirror of the start (the dropper voltage
+changes sign); Newton's method on that half-period map, with the Jacobian
+taken as the product of the segments' transition matrices (exact for a
+continuous piecewise-linear field), finds the steady state in a few
+half-period passes whatever the time constants.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Sequence
+from dataclasses import dataclass, field
+
+from .errors import ConvergenceError, InputError, NoSolutionError
+from .flicker import flicker_index, ieee1789_band, percent_flicker
+
+Vec = tuple[float, float]
+Mat = tuple[float, float, float, float]  # row major a, b, c, d
+Lin = tuple[float, float, float, float]  # coefficients of (vcd, vcs, vs, 1)
+
+THERMAL_VOLTAGE_PER_K = 1.380649e-23 / 1.602176634e-19
+
+
+@dataclass(frozen=True)
+class Bridge:
+    """Diode model of the bridge. ``kind`` "line": each diode drops
+    ``drop + resistance * I``. ``kind`` "exponential": each diode follows
+    I = Is (exp(V / (n Vt)) - 1) with ``resistance`` in series."""
+
+    kind: str = "line"
+    drop: float = 0.9
+    resistance: float = 0.05
+    saturation_current: float = 1e-9
+    emission_coefficient: float = 1.8
+    temperature: float = 25.0
+
+    def pair_drop(self, current: float) -> float:
+        """Voltage across the two conducting diodes at a current."""
+        if current <= 0:
+            return 0.0 if self.kind == "exponential" else 2 * self.drop
+        if self.kind == "line":
+            return 2 * (self.drop + self.resistance * current)
+        vt = self.emission_coefficient * THERMAL_VOLTAGE_PER_K * (self.temperature + 273.15)
+        return 2 * (vt * math.log1p(current / self.saturation_current) + self.resistance * current)
+
+    def threshold(self) -> float:
+        return 2 * self.drop if self.kind == "line" else 0.0
+
+    def chords(self, i_max: float) -> tuple[tuple[float, float, float], ...]:
+        """(start current, a, r) with pair drop = a + r I from each start on."""
+        if self.kind == "line":
+            return ((0.0, 2 * self.drop, 2 * self.resistance),)
+        pts = [0.0]
+        i = 1e-7
+        while i < i_max * 4:
+            pts.append(i)
+            i *= 1.6
+        pts.append(i)
+        out = []
+        for k in range(len(pts) - 1):
+            i0, i1 = pts[k], pts[k + 1]
+            v0, v1 = self.pair_drop(i0), self.pair_drop(i1)
+            r = (v1 - v0) / (i1 - i0)
+            out.append((i0, v0 - r * i0, r))
+        # beyond the table: continue the last chord
+        return tuple(out)
+
+
+@dataclass(frozen=True)
+class StringLoad:
+    """``count`` identical strings, each conducting (v - knee)/resistance
+    above its knee."""
+
+    knee: float
+    resistance: float
+    count: int = 1
+    ballast: float = 0.0
+
+
+@dataclass(frozen=True)
+class Circuit:
+    mains_voltage: float
+    frequency: float
+    series_resistance: float = 0.0
+    dropper: float | None = None
+    dropper_bleeder: float | None = None
+    bridge: Bridge = field(default_factory=Bridge)
+    smoothing: float = 100e-6
+    esr: float = 0.0
+    bleeder: float | None = None
+    strings: tuple[StringLoad, ...] = ()
+
+    def validate(self) -> None:
+        def pos(name: str, x: float | None, allow_none: bool = False, allow_zero: bool = False) -> None:
+            if x is None and allow_none:
+                return
+            if x is None or not math.isfinite(x) or x < 0 or (x == 0 and not allow_zero):
+                raise InputError(name, x, "a positive finite value" if not allow_zero else "a finite value of 0 or more")
+
+        pos("mains.voltage", self.mains_voltage)
+        pos("mains.frequency", self.frequency)
+        pos("dropper.series_resistance", self.series_resistance, allow_zero=True)
+        pos("dropper.capacitance", self.dropper, allow_none=True)
+        pos("dropper.bleeder", self.dropper_bleeder, allow_none=True)
+        pos("smoothing.capacitance", self.smoothing)
+        pos("smoothing.esr", self.esr, allow_zero=True)
+        pos("smoothing.bleeder", self.bleeder, allow_none=True)
+        b = self.bridge
+        if b.kind not in ("line", "exponential"):
+            raise InputError("bridge.model", b.kind, "'line' or 'exponential'")
+        pos("bridge.resistance", b.resistance, allow_zero=True)
+        if b.kind == "line":
+            pos("bridge.drop", b.drop, allow_zero=True)
+        else:
+            pos("bridge.saturation_current", b.saturation_current)
+            pos("bridge.emission_coefficient", b.emission_coefficient)
+            if not -60 <= b.temperature <= 200:
+                raise InputError("bridge.temperature", b.temperature, "a temperature from -60 °C to 200 °C")
+        if self.series_resistance + 2 * b.resistance <= 0 and b.kind == "line":
+            raise InputError("bridge.resistance", b.resistance, "more than 0 Ω when there is no series resistance")
+        if self.dropper is None and self.series_resistance + 2 * b.resistance <= 0:
+            raise InputError("dropper.series_resistance", self.series_resistance, "a source resistance above 0 Ω when there is no dropper")
+        for k, s in enumerate(self.strings):
+            if not (s.knee >= 0 and math.isfinite(s.knee)):
+                raise InputError(f"strings[{k}].knee", s.knee, "a knee voltage of 0 V or more")
+            if not (s.resistance > 0 and math.isfinite(s.resistance)):
+                raise InputError(f"strings[{k}].resistance", s.resistance, "a string resistance above 0 Ω (module Rd or a ballast)")
+            if s.count < 1:
+                raise InputError(f"strings[{k}].count", s.count, "at least one string")
+
+
+# --- small linear algebra -------------------------------------------------------
+
+def _lin(a: float = 0.0, b: float = 0.0, c: float = 0.0, d: float = 0.0) -> Lin:
+    return (a, b, c, d)
+
+
+def _add(p: Lin, q: Lin, k: float = 1.0) -> Lin:
+    return (p[0] + k * q[0], p[1] + k * q[1], p[2] + k * q[2], p[3] + k * q[3])
+
+
+def _scale(p: Lin, k: float) -> Lin:
+    return (p[0] * k, p[1] * k, p[2] * k, p[3] * k)
+
+
+def _g1(z: float) -> float:
+    """expm1(z)/z, well behaved at 0."""
+    return 1.0 + z / 2 + z * z / 6 if abs(z) < 1e-5 else math.expm1(z) / z
+
+
+def _g1p(z: float) -> float:
+    """Derivative of expm1(z)/z."""
+    if abs(z) < 1e-3:
+        return 0.5 + z / 3 + z * z / 8
+    return (math.exp(z) * (z - 1) + 1) / (z * z)
+
+
+class Mode:
+    """One linear piece: which diode pair conducts (sigma), on which chord,
+    and which strings are on."""
+
+    __slots__ = ("A", "B", "Xr", "Xi", "c", "chord", "den_inv", "g_hi", "g_lo", "g_on", "i_lin", "ic_lin", "key", "l1", "l2",
+                 "on", "sigma", "strings_g", "vb_lin")  # fmt: skip
+
+    def __init__(self, sol: Solver, sigma: int, chord: int, on: tuple[bool, ...]) -> None:
+        c = sol.c
+        self.key = (sigma, chord, on)
+        self.sigma, self.chord, self.on = sigma, chord, on
+        G = (1.0 / c.bleeder) if c.bleeder else 0.0
+        J = 0.0
+        for s, is_on in zip(sol.loads, on):
+            if is_on:
+                G += s.count / s.resistance
+                J += s.count * s.knee / s.resistance
+        re = c.esr
+        kd = 1.0 if c.dropper else 0.0
+        u = _lin(-kd * sigma, 0.0, float(sigma), 0.0)  # sigma (vs - vcd)
+        vcs = _lin(0.0, 1.0, 0.0, 0.0)
+        if sigma:
+            _, a, r = sol.chords[chord]
+            rt = c.series_resistance + r
+            dnm = 1 + re * (1 / rt + G)
+            vb = _scale(_add(_add(vcs, _scale(_add(u, _lin(d=-a)), re / rt)), _lin(d=re * J)), 1 / dnm)
+            idc = _scale(_add(_add(u, vb, -1.0), _lin(d=-a)), 1 / rt)
+            i = _scale(idc, float(sigma))
+        else:
+            vb = _scale(_add(vcs, _lin(d=re * J)), 1 / (1 + re * G))
+            idc = _lin()
+            i = _lin()
+        ic = _add(_add(idc, vb, -G), _lin(d=J))
+        self.vb_lin, self.i_lin, self.ic_lin = vb, i, ic
+        dcs = _scale(ic, 1 / c.smoothing)
+        if c.dropper:
+            gb = 1 / c.dropper_bleeder if c.dropper_bleeder else 0.0
+            dcd = _scale(_add(i, _lin(a=1.0), -gb), 1 / c.dropper)
+        else:
+            dcd = _lin(a=-1.0)  # a decoupled placeholder state that decays to zero
+        self.A: Mat = (dcd[0], dcd[1], dcs[0], dcs[1])
+        self.B: Vec = (dcd[2], dcs[2])
+        self.c: Vec = (dcd[3], dcs[3])
+        a11, a12, a21, a22 = self.A
+        s = (a11 + a22) / 2
+        det = a11 * a22 - a12 * a21
+        disc = s * s - det
+        d = math.sqrt(disc) if disc > 0 else 0.0
+        self.l1, self.l2 = s + d, s - d
+        # sinusoidal particular solution X: (i w I - A) X = B (-i Vpk)
+        w, vpk = sol.omega, sol.vpk
+        m11, m12, m21, m22 = complex(-a11, w), complex(-a12, 0), complex(-a21, 0), complex(-a22, w)
+        b1, b2 = complex(0, -vpk * self.B[0]), complex(0, -vpk * self.B[1])
+        dd = m11 * m22 - m12 * m21
+        x1 = (b1 * m22 - m12 * b2) / dd
+        x2 = (m11 * b2 - m21 * b1) / dd
+        self.Xr = (x1.real, x2.real)
+        self.Xi = (x1.imag, x2.imag)
+        # event functions (value > 0 means "stay")
+        self.g_on: tuple[Lin, ...] = ()
+        self.g_lo: Lin | None = None
+        self.g_hi: Lin | None = None
+        if sigma:
+            start = sol.chords[chord][0]
+            self.g_lo = _add(idc, _lin(d=-start)) if chord > 0 else idc
+            if chord + 1 < len(sol.chords):
+                self.g_hi = _add(_scale(idc, -1.0), _lin(d=sol.chords[chord + 1][0]))
+        else:
+            a0 = sol.chords[0][1]
+            up = _add(_add(_lin(-kd, 0.0, 1.0, 0.0), vb, -1.0), _lin(d=-a0))  # (vs - vcd) - vb - a0
+            dn = _add(_add(_lin(kd, 0.0, -1.0, 0.0), vb, -1.0), _lin(d=-a0))
+            self.g_on = (_scale(up, -1.0), _scale(dn, -1.0))
+        self.strings_g = tuple(
+            _scale(_add(vb, _lin(d=-s.knee)), 1.0 if is_on else -1.0) for s, is_on in zip(sol.loads, on)
+        )
+        self.den_inv = 0.0
+
+
+class Solver:
+    def __init__(self, circuit: Circuit, grid: int = 160) -> None:
+        circuit.validate()
+        self.c = circuit
+        self.omega = 2 * math.pi * circuit.frequency
+        self.vpk = math.sqrt(2) * circuit.mains_voltage
+        self.period = 1 / circuit.frequency
+        self.half = self.period / 2
+        self.loads = circuit.strings
+        r_loop = circuit.series_resistance + 2 * circuit.bridge.resistance + circuit.esr
+        i_est = self.vpk / r_loop if r_loop > 0 else 1e3
+        if circuit.dropper:
+            i_est = min(i_est, 3 * self.omega * circuit.dropper * self.vpk)
+        self.chords = circuit.bridge.chords(max(i_est, 1e-3))
+        self.grid = grid
+        self.modes: dict[tuple[int, int, tuple[bool, ...]], Mode] = {}
+        self.steps = 0
+        self.iterations = 0
+
+    def mode(self, sigma: int, chord: int, on: tuple[bool, ...]) -> Mode:
+        key = (sigma, chord, on)
+        m = self.modes.get(key)
+        if m is None:
+            m = self.modes[key] = Mode(self, sigma, chord, on)
+        return m
+
+    # -- evaluation inside one mode ---------------------------------------------
+
+    def xs(self, m: Mode, t: float) -> Vec:
+        cw, sw = math.cos(self.omega * t), math.sin(self.omega * t)
+        return (m.Xr[0] * cw - m.Xi[0] * sw, m.Xr[1] * cw - m.Xi[1] * sw)
+
+    def propagate(self, m: Mode, t0: float, x0: Vec, tau: float) -> tuple[Vec, Mat]:
+        """State at t0 + tau and the transition matrix exp(A tau)."""
+        self.steps += 1
+        l1, l2 = m.l1, m.l2
+        a11, a12, a21, a22 = m.A
+        z1, z2 = l1 * tau, l2 * tau
+        e2 = math.exp(z2)
+        dz = z1 - z2
+        # divided differences of exp and of (exp - 1)/lambda
+        if dz > 30:
+            de = (math.exp(z1) - e2) / (l1 - l2)
+        elif dz > 1e-9:
+            de = e2 * math.expm1(dz) / (l1 - l2)
+        else:
+            de = tau * e2
+        f2 = tau * _g1(z2)
+        if dz > 1e-4 * max(1.0, abs(z2)):
+            df = tau * (_g1(z1) - _g1(z2)) / (l1 - l2)
+        else:
+            df = tau * tau * _g1p((z1 + z2) / 2)
+        E = (e2 + de * (a11 - l2), de * a12, de * a21, e2 + de * (a22 - l2))
+        F = (f2 + df * (a11 - l2), df * a12, df * a21, f2 + df * (a22 - l2))
+        p0 = self.xs(m, t0)
+        p1 = self.xs(m, t0 + tau)
+        y0, y1 = x0[0] - p0[0], x0[1] - p0[1]
+        c0, c1 = m.c
+        x = (
+            E[0] * y0 + E[1] * y1 + p1[0] + F[0] * c0 + F[1] * c1,
+            E[2] * y0 + E[3] * y1 + p1[1] + F[2] * c0 + F[3] * c1,
+        )
+        return x, E
+
+    def value(self, lin: Lin, x: Vec, t: float) -> float:
+        return lin[0] * x[0] + lin[1] * x[1] + lin[2] * self.vpk * math.sin(self.omega * t) + lin[3]
+
+    def mode_at(self, t: float, x: Vec) -> Mode:
+        """The mode consistent with state x at time t."""
+        on = tuple(x[1] > s.knee for s in self.loads)
+        for _ in range(len(self.loads) + 2):
+            m = self.mode(0, 0, on)
+            vb = self.value(m.vb_lin, x, t)
+            new_on = tuple(vb > s.knee for s in self.loads)
+            if new_on == on:
+                break
+            on = new_on
+        m = self.mode(0, 0, on)
+        for k, g in enumerate(m.g_on):
+            if self.value(g, x, t) < 0:
+                sigma = 1 if k == 0 else -1
+                for j in range(len(self.chords)):
+                    mm = self.mode(sigma, j, on)
+                    if (mm.g_hi is None or self.value(mm.g_hi, x, t) >= 0) and self.value(mm.g_lo or _lin(d=1.0), x, t) >= 0:
+                        return self._settle_strings(mm, t, x)
+                return self._settle_strings(self.mode(sigma, len(self.chords) - 1, on), t, x)
+        return m
+
+    def _settle_strings(self, m: Mode, t: float, x: Vec) -> Mode:
+        for _ in range(len(self.loads) + 2):
+            vb = self.value(m.vb_lin, x, t)
+            on = tuple(vb > s.knee for s in self.loads)
+            if on == m.on:
+                return m
+            m = self.mode(m.sigma, m.chord, on)
+        return m
+
+    def _events(self, m: Mode) -> list[tuple[Lin, str, int]]:
+        ev: list[tuple[Lin, str, int]] = []
+        for k, g in enumerate(m.g_on):
+            ev.append((g, "on", 1 if k == 0 else -1))
+        if m.g_lo is not None:
+            ev.append((m.g_lo, "lo", 0))
+        if m.g_hi is not None:
+            ev.append((m.g_hi, "hi", 0))
+        for k, g in enumerate(m.strings_g):
+            ev.append((g, "str", k))
+        return ev
+
+    def _next_mode(self, m: Mode, kind: str, k: int) -> Mode:
+        if kind == "on":
+            return self.mode(k, 0, m.on)
+        if kind == "lo":
+            return self.mode(0, 0, m.on) if m.chord == 0 else self.mode(m.sigma, m.chord - 1, m.on)
+        if kind == "hi":
+            return self.mode(m.sigma, m.chord + 1, m.on)
+        on = list(m.on)
+        on[k] = not on[k]
+        return self.mode(m.sigma, m.chord, tuple(on))
+
+    def half_period(self, x0: Vec, record: bool = False) -> tuple[Vec, Mat, list[tuple[float, float, Mode, Vec]]]:
+        """Integrate from t = 0 to T/2. Returns the end state, d(end)/d(start)
+        and, if asked, the segments (t0, t1, mode, state at t0)."""
+        t = 0.0
+        x = x0
+        m = self.mode_at(t, x)
+        M: Mat = (1.0, 0.0, 0.0, 1.0)
+        segs: list[tuple[float, float, Mode, Vec]] = []
+        h = self.half / self.grid
+        guard = 0
+        while t < self.half * (1 - 1e-14):
+            guard += 1
+            if guard > 50 * self.grid:
+                raise ConvergenceError("events", "too many switching events in one half period")
+            ev = self._events(m)
+            t_seg0, x_seg0 = t, x
+            # march the grid until an event function turns negative
+            hit: tuple[float, str, int] | None = None
+            ta, xa = t, x
+            while ta < self.half * (1 - 1e-14) and hit is None:
+                tb = min(ta + h, self.half)
+                xb, _ = self.propagate(m, t_seg0, x_seg0, tb - t_seg0)
+                best = None
+                for g, kind, k in ev:
+                    if self.value(g, xb, tb) < 0:
+                        # refine the crossing in (ta, tb]
+                        lo, hi = ta, tb
+                        for _ in range(60):
+                            mid = 0.5 * (lo + hi)
+                            xm, _ = self.propagate(m, t_seg0, x_seg0, mid - t_seg0)
+                            if self.value(g, xm, mid) < 0:
+                                hi = mid
+                            else:
+                                lo = mid
+                            if hi - lo < 1e-13 * self.period:
+                                break
+                        if best is None or hi < best[0]:
+                            best = (hi, kind, k)
+                if best is not None:
+                    hit = best
+                else:
+                    ta, xa = tb, xb
+            if hit is None:
+                t_end = self.half
+                kind, k = "", 0
+            else:
+                t_end, kind, k = hit
+            x_end, E = self.propagate(m, t_seg0, x_seg0, t_end - t_seg0)
+            M = (E[0] * M[0] + E[1] * M[2], E[0] * M[1] + E[1] * M[3], E[2] * M[0] + E[3] * M[2], E[2] * M[1] + E[3] * M[3])
+            if record:
+                segs.append((t_seg0, t_end, m, x_seg0))
+            t, x = t_end, x_end
+            if hit is not None:
+                m = self._next_mode(m, kind, k)
+        return x, M, segs
+
+    def solve(self, x0: Vec, tol: float = 1e-10, max_iter: int = 40) -> Vec:
+        """Newton on x = S * Phi_half(x), S = diag(-1, 1)."""
+        x = x0
+        scale = max(self.vpk, 1.0)
+        last = math.inf
+        for it in range(max_iter):
+            self.iterations = it + 1
+            y, M, _ = self.half_period(x)
+            r = (-y[0] - x[0], y[1] - x[1])
+            norm = max(abs(r[0]), abs(r[1]))
+            if norm < tol * scale:
+                return x
+            # J = S M - I
+            j11, j12, j21, j22 = -M[0] - 1, -M[1], M[2], M[3] - 1
+            det = j11 * j22 - j12 * j21
+            if det == 0 or not math.isfinite(det):
+                raise ConvergenceError("Jacobian", "the half-period map is singular (a state that no current ever reaches)")
+            dx = ((j22 * r[0] - j12 * r[1]) / det, (-j21 * r[0] + j11 * r[1]) / det)
+            step = 1.0
+            if norm > last:
+                step = 0.5
+            x = (x[0] - step * dx[0], x[1] - step * dx[1])
+            last = norm
+        raise ConvergenceError("state after a half period", f"residual still {norm:.3g} V after {max_iter} Newton steps")
+
+
+@dataclass(frozen=True)
+class Stats:
+    avg: float
+    rms: float
+    min: float
+    max: float
+
+
+def _stats(xs: Sequence[float]) -> Stats:
+    n = len(xs)
+    return Stats(sum(xs) / n, math.sqrt(sum(v * v for v in xs) / n), min(xs), max(xs))
+
+
+@dataclass(frozen=True)
+class SteadyState:
+    led_current: Stats
+    string_current: tuple[Stats, ...]  # per string group, one string
+    bus_voltage: Stats
+    ripple_pp: float
+    percent_flicker: float  # percent
+    flicker_index: float
+    flicker_frequency: float
+    flicker_band: str
+    low_risk_limit: float
+    no_effect_limit: float
+    dropper_current_rms: float
+    dropper_voltage_peak: float
+    smoothing_ripple_current_rms: float
+    diode_current_avg: float
+    diode_current_rms: float
+    diode_current_peak: float
+    line_current_rms: float
+    input_power: float
+    apparent_power: float
+    power_factor: float
+    led_power: float
+    losses: dict[str, float]
+    waveform: dict[str, tuple[float, ...]]
+    iterations: int
+    steps: int
+
+
+def initial_state(c: Circuit) -> Vec:
+    """A closed-form start: bus where the charge-balance supply meets the
+    load line, dropper voltage as held since the last crest."""
+    vpk = math.sqrt(2) * c.mains_voltage
+    a0 = c.bridge.threshold()
+
+    def load(v: float) -> float:
+        i = sum(s.count * max(v - s.knee, 0.0) / s.resistance for s in c.strings)
+        return i + (v / c.bleeder if c.bleeder else 0.0)
+
+    def supply(v: float) -> float:
+        head = max(vpk - v - a0, 0.0)
+        if c.dropper:
+            i = 4 * c.frequency * c.dropper * head
+            r = c.series_resistance
+            return i if r <= 0 else min(i, head / r)
+        r = c.series_resistance + 2 * c.bridge.resistance
+        return head / r * 0.3  # short conduction near the crest
+    lo, hi = 0.0, max(vpk - a0, 0.0)
+    for _ in range(60):
+        mid = (lo + hi) / 2
+        if supply(mid) > load(mid):
+            lo = mid
+        else:
+            hi = mid
+    vb = lo
+    vcd = -max(vpk - vb - a0, 0.0) if c.dropper else 0.0
+    return (vcd, vb)
+
+
+def solve(c: Circuit, points: int = 1024, wave_points: int = 200) -> SteadyState:
+    sol = Solver(c)
+    a0 = c.bridge.threshold()
+    if c.strings and min(s.knee for s in c.strings) >= sol.vpk - a0:
+        raise NoSolutionError(
+            "array.series", f"{min(s.knee for s in c.strings):.4g} V knee",
+            f"a string knee below the mains peak less the bridge drop ({sol.vpk - a0:.4g} V)",
+            "no conduction: the LED strings need more than the mains peak",
+        )  # fmt: skip
+    x0 = sol.solve(initial_state(c))
+    _, _, segs = sol.half_period(x0, record=True)
+    return _measure(sol, segs, points, wave_points)
+
+
+def _measure(sol: Solver, segs: list[tuple[float, float, Mode, Vec]], n: int, nw: int) -> SteadyState:
+    c = sol.c
+    half = sol.half
+    ts = [half * k / n for k in range(n)]
+    rows = []
+    si = 0
+    for t in ts:
+        while si + 1 < len(segs) and t >= segs[si][1]:
+            si += 1
+        t0, _, m, x0 = segs[si]
+        x, _ = sol.propagate(m, t0, x0, t - t0)
+        vs = sol.vpk * math.sin(sol.omega * t)
+        vb = sol.value(m.vb_lin, x, t)
+        i = sol.value(m.i_lin, x, t)
+        ic = sol.value(m.ic_lin, x, t)
+        per = tuple(max(vb - s.knee, 0.0) / s.resistance for s in sol.loads)
+        rows.append((t, vs, x[0], x[1], vb, i, ic, per))
+    led = [sum(s.count * p for s, p in zip(sol.loads, r[7])) for r in rows]
+    vbus = [r[4] for r in rows]
+    line = [r[5] for r in rows]
+    idc = [abs(v) for v in line]
+    icap = [r[6] for r in rows]
+    gb = 1 / c.dropper_bleeder if (c.dropper and c.dropper_bleeder) else 0.0
+    i_cd = [r[5] - r[2] * gb for r in rows]
+    pin = sum(r[1] * r[5] for r in rows) / n
+    irms = math.sqrt(sum(v * v for v in line) / n)
+    s_app = c.mains_voltage * irms
+    led_power = 0.0
+    ballast_loss = 0.0
+    for k, s in enumerate(sol.loads):
+        ik = [r[7][k] for r in rows]
+        p_string = sum(ii * vb for ii, vb in zip(ik, vbus)) / n
+        pb = s.ballast * sum(ii * ii for ii in ik) / n
+        led_power += s.count * (p_string - pb)
+        ballast_loss += s.count * pb
+    losses = {
+        "series_resistor": c.series_resistance * sum(v * v for v in line) / n,
+        "bridge": sum(a * c.bridge.pair_drop(a) for a in idc) / n,
+        "esr": c.esr * sum(v * v for v in icap) / n,
+        "bus_bleeder": (sum(v * v for v in vbus) / n / c.bleeder) if c.bleeder else 0.0,
+        "dropper_bleeder": (sum(r[2] ** 2 for r in rows) / n * gb),
+        "ballast": ballast_loss,
+    }
+    led_stats = _stats(led)
+    pf = percent_flicker(led)
+    fi = flicker_index(led)
+    band = ieee1789_band(pf, 2 * c.frequency)
+    # waveform over a whole period: second half mirrors the first
+    wt, wv, wi, wb, wl = [], [], [], [], []
+    step = max(1, n // (nw // 2))
+    for r, lc in zip(rows[::step], led[::step]):
+        wt.append(r[0]); wv.append(r[1]); wi.append(r[5]); wb.append(r[4]); wl.append(lc)  # fmt: skip
+    wt += [t + half for t in wt]
+    wv += [-v for v in wv]
+    wi += [-v for v in wi]
+    wb += wb
+    wl += wl
+    return SteadyState(
+        led_current=led_stats,
+        string_current=tuple(_stats([r[7][k] for r in rows]) for k in range(len(sol.loads))),
+        bus_voltage=_stats(vbus),
+        ripple_pp=max(vbus) - min(vbus),
+        percent_flicker=pf,
+        flicker_index=fi,
+        flicker_frequency=2 * c.frequency,
+        flicker_band=band.name,
+        low_risk_limit=band.low_risk_limit,
+        no_effect_limit=band.no_effect_limit,
+        dropper_current_rms=math.sqrt(sum(v * v for v in i_cd) / n) if c.dropper else 0.0,
+        dropper_voltage_peak=max(abs(r[2]) for r in rows) if c.dropper else 0.0,
+        smoothing_ripple_current_rms=math.sqrt(sum(v * v for v in icap) / n),
+        diode_current_avg=sum(idc) / n / 2,
+        diode_current_rms=math.sqrt(sum(v * v for v in idc) / n / 2),
+        diode_current_peak=max(idc),
+        line_current_rms=irms,
+        input_power=pin,
+        apparent_power=s_app,
+        power_factor=pin / s_app if s_app > 0 else 0.0,
+        led_power=led_power,
+        losses=losses,
+        waveform={"t": tuple(wt), "mains_V": tuple(wv), "line_current_A": tuple(wi), "bus_V": tuple(wb), "led_current_A": tuple(wl)},
+        iterations=sol.iterations,
+        steps=sol.steps,
+    )
+
+
+def switch_on(c: Circuit) -> tuple[float, float]:
+    """Worst-case switch-on at the crest with everything discharged: peak
+    current, and energy taken by the series resistor while the capacitors
+    charge (its share of C V^2 / 2)."""
+    vpk = math.sqrt(2) * c.mains_voltage
+    r = c.series_resistance + 2 * c.bridge.resistance + c.esr
+    if c.bridge.kind == "line":
+        head = vpk - 2 * c.bridge.drop
+        peak = head / r if r > 0 else math.inf
+    else:
+        lo, hi = 0.0, vpk / max(r, 1e-6)
+        for _ in range(200):
+            mid = (lo + hi) / 2
+            if (c.series_resistance + c.esr) * mid + c.bridge.pair_drop(mid) < vpk:
+                lo = mid
+            else:
+                hi = mid
+        peak, head = lo, vpk
+    ceq = c.smoothing if not c.dropper else c.dropper * c.smoothing / (c.dropper + c.smoothing)
+    share = c.series_resistance / r if r > 0 else 0.0
+    return peak, 0.5 * ceq * head**2 * share
+
+
+def open_load(c: Circuit) -> tuple[float, float]:
+    """Every string open: the bus voltage the smoothing capacitor climbs to,
+    and the time constant of the climb (charge balance: Cs / (4 f Cd) through
+    a dropper; about Cs (Rs + 2 Rd) through a resistor feed)."""
+    vpk = math.sqrt(2) * c.mains_voltage
+    if c.bleeder:
+        oc = Circuit(**{**c.__dict__, "strings": ()})
+        st = solve(oc)
+        v = st.bus_voltage.max
+    else:
+        v = vpk - c.bridge.threshold()
+    if c.dropper:
+        tau = c.smoothing / (4 * c.frequency * c.dropper)
+    else:
+        tau = c.smoothing * (c.series_resistance + 2 * c.bridge.resistance + c.esr) * math.pi
+    return v, tau
