@@ -317,6 +317,11 @@ def _dropper(v: V) -> Result:
     bank = None
     if stock:
         need = c_need if c_need else c
+        if need / stock > 1000:
+            from .errors import InputError
+
+            raise InputError("stock_capacitance", format_value(stock, "capacitance"),
+                             f"at least 1/1000 of the {format_value(need, 'capacitance')} needed")  # fmt: skip
         bank = float(max(1, math.ceil(need / stock - 1e-9)))
         for k in range(1, int(bank) + 1):
             rows.append({"step": float(k), "capacitance": k * stock,
@@ -407,6 +412,11 @@ def _ripple(v: V) -> Result:
     pp = rip.ripple_pp(i, fr, c, full)
     s, p = int(f(v, "series")), int(f(v, "parallel"))
     r_string = s * f(v, "r_dynamic") + f(v, "ballast")
+    if r_string <= 0:
+        from .errors import InputError
+
+        raise InputError("r_dynamic", format_value(f(v, "r_dynamic"), "resistance"),
+                         "a module Rd or a ballast above 0 Ω (with neither, the current ripple is unbounded)")  # fmt: skip
     di = rip.current_ripple(pp, r_string, p)
     pf = rip.percent_flicker_from_ripple(i, di)
     ripple_f = (2 if full else 1) * fr

@@ -27,7 +27,7 @@ from collections.abc import Sequence
 from dataclasses import dataclass, field
 
 from .errors import ConvergenceError, InputError, NoSolutionError
-from .flicker import flicker_index, ieee1789_band, percent_flicker
+from .flicker import ieee1789_band
 
 Vec = tuple[float, float]
 Mat = tuple[float, float, float, float]  # row major a, b, c, d
@@ -267,6 +267,16 @@ class Solver:
         self.steps = 0
         self.iterations = 0
 
+    def chord_drop(self, current: float) -> float:
+        """Pair drop of the piecewise-linear bridge model actually solved."""
+        if current <= 0:
+            return 0.0
+        a, r = self.chords[0][1], self.chords[0][2]
+        for start, aa, rr in self.chords:
+            if current >= start:
+                a, r = aa, rr
+        return a + r * current
+
     def mode(self, sigma: int, chord: int, on: tuple[bool, ...]) -> Mode:
         key = (sigma, chord, on)
         m = self.modes.get(key)
@@ -393,17 +403,28 @@ class Solver:
                 best = None
                 for g, kind, k in ev:
                     if self.value(g, xb, tb) < 0:
-                        # refine the crossing in (ta, tb]
+                        # refine the crossing in (ta, tb] by the Illinois variant of regula falsi
                         lo, hi = ta, tb
-                        for _ in range(60):
-                            mid = 0.5 * (lo + hi)
-                            xm, _ = self.propagate(m, t_seg0, x_seg0, mid - t_seg0)
-                            if self.value(g, xm, mid) < 0:
-                                hi = mid
-                            else:
-                                lo = mid
+                        glo, ghi = self.value(g, xa, ta), self.value(g, xb, tb)
+                        side = 0
+                        for _ in range(80):
                             if hi - lo < 1e-13 * self.period:
                                 break
+                            mid = hi - ghi * (hi - lo) / (ghi - glo) if ghi != glo else 0.5 * (lo + hi)
+                            if not lo < mid < hi:
+                                mid = 0.5 * (lo + hi)
+                            xm, _ = self.propagate(m, t_seg0, x_seg0, mid - t_seg0)
+                            gm = self.value(g, xm, mid)
+                            if gm < 0:
+                                hi, ghi = mid, gm
+                                if side == -1:
+                                    glo *= 0.5
+                                side = -1
+                            else:
+                                lo, glo = mid, gm
+                                if side == 1:
+                                    ghi *= 0.5
+                                side = 1
                         if best is None or hi < best[0]:
                             best = (hi, kind, k)
                 if best is not None:
@@ -522,7 +543,7 @@ def initial_state(c: Circuit) -> Vec:
     return (vcd, vb)
 
 
-def solve(c: Circuit, points: int = 1024, wave_points: int = 200) -> SteadyState:
+def solve(c: Circuit, points: int = 600, wave_points: int = 200) -> SteadyState:
     sol = Solver(c)
     a0 = c.bridge.threshold()
     if c.strings and min(s.knee for s in c.strings) >= sol.vpk - a0:
@@ -536,23 +557,46 @@ def solve(c: Circuit, points: int = 1024, wave_points: int = 200) -> SteadyState
     return _measure(sol, segs, points, wave_points)
 
 
+def _nodes(segs: list[tuple[float, float, Mode, Vec]], half: float, n: int) -> list[tuple[int, float, float]]:
+    """Composite Simpson nodes within each segment (segment index, time,
+    weight/half): every kink sits on a segment boundary, so each piece is smooth
+    and short pieces (sharp current spikes) still get their own nodes."""
+    out: list[tuple[int, float, float]] = []
+    for k, (t0, t1, mode, _) in enumerate(segs):
+        dt = t1 - t0
+        if dt <= 0:
+            continue
+        # enough nodes for the time base and for the fastest transient of the piece
+        stiff = min(dt * abs(mode.l2), 400.0)
+        m = max(2, 2 * math.ceil(max(n * dt / half, stiff) / 2))
+        h = dt / m
+        for j in range(m + 1):
+            w = 1.0 if j in (0, m) else (4.0 if j % 2 else 2.0)
+            out.append((k, t0 + j * h, w * h / 3 / half))
+    return out
+
+
 def _measure(sol: Solver, segs: list[tuple[float, float, Mode, Vec]], n: int, nw: int) -> SteadyState:
     c = sol.c
     half = sol.half
-    ts = [half * k / n for k in range(n)]
-    rows = []
-    si = 0
-    for t in ts:
-        while si + 1 < len(segs) and t >= segs[si][1]:
-            si += 1
-        t0, _, m, x0 = segs[si]
+
+    def sample(k: int, t: float) -> tuple[float, float, float, float, float, float, float, tuple[float, ...]]:
+        t0, _, m, x0 = segs[k]
         x, _ = sol.propagate(m, t0, x0, t - t0)
-        vs = sol.vpk * math.sin(sol.omega * t)
         vb = sol.value(m.vb_lin, x, t)
-        i = sol.value(m.i_lin, x, t)
-        ic = sol.value(m.ic_lin, x, t)
         per = tuple(max(vb - s.knee, 0.0) / s.resistance for s in sol.loads)
-        rows.append((t, vs, x[0], x[1], vb, i, ic, per))
+        return (t, sol.vpk * math.sin(sol.omega * t), x[0], x[1], vb, sol.value(m.i_lin, x, t), sol.value(m.ic_lin, x, t), per)
+
+    nodes = _nodes(segs, half, n)
+    rows = [sample(k, t) for k, t, _ in nodes]
+    wts = [w for _, _, w in nodes]
+
+    def mean(xs: Sequence[float]) -> float:
+        return sum(w * x for w, x in zip(wts, xs))
+
+    def stats(xs: Sequence[float]) -> Stats:
+        return Stats(mean(xs), math.sqrt(max(mean([x * x for x in xs]), 0.0)), min(xs), max(xs))
+
     led = [sum(s.count * p for s, p in zip(sol.loads, r[7])) for r in rows]
     vbus = [r[4] for r in rows]
     line = [r[5] for r in rows]
@@ -560,43 +604,43 @@ def _measure(sol: Solver, segs: list[tuple[float, float, Mode, Vec]], n: int, nw
     icap = [r[6] for r in rows]
     gb = 1 / c.dropper_bleeder if (c.dropper and c.dropper_bleeder) else 0.0
     i_cd = [r[5] - r[2] * gb for r in rows]
-    pin = sum(r[1] * r[5] for r in rows) / n
-    irms = math.sqrt(sum(v * v for v in line) / n)
+    pin = mean([r[1] * r[5] for r in rows])
+    irms = math.sqrt(mean([v * v for v in line]))
     s_app = c.mains_voltage * irms
     led_power = 0.0
     ballast_loss = 0.0
     for k, s in enumerate(sol.loads):
         ik = [r[7][k] for r in rows]
-        p_string = sum(ii * vb for ii, vb in zip(ik, vbus)) / n
-        pb = s.ballast * sum(ii * ii for ii in ik) / n
-        led_power += s.count * (p_string - pb)
+        pb = s.ballast * mean([ii * ii for ii in ik])
+        led_power += s.count * (mean([ii * vb for ii, vb in zip(ik, vbus)]) - pb)
         ballast_loss += s.count * pb
     losses = {
-        "series_resistor": c.series_resistance * sum(v * v for v in line) / n,
-        "bridge": sum(a * c.bridge.pair_drop(a) for a in idc) / n,
-        "esr": c.esr * sum(v * v for v in icap) / n,
-        "bus_bleeder": (sum(v * v for v in vbus) / n / c.bleeder) if c.bleeder else 0.0,
-        "dropper_bleeder": (sum(r[2] ** 2 for r in rows) / n * gb),
+        "series_resistor": c.series_resistance * mean([v * v for v in line]),
+        "bridge": mean([a * sol.chord_drop(a) for a in idc]),
+        "esr": c.esr * mean([v * v for v in icap]),
+        "bus_bleeder": mean([v * v for v in vbus]) / c.bleeder if c.bleeder else 0.0,
+        "dropper_bleeder": mean([r[2] ** 2 for r in rows]) * gb,
         "ballast": ballast_loss,
     }
-    led_stats = _stats(led)
-    pf = percent_flicker(led)
-    fi = flicker_index(led)
+    led_stats = stats(led)
+    hi_l, lo_l = max(led), min(led)
+    pf = 100.0 * (hi_l - lo_l) / (hi_l + lo_l) if hi_l + lo_l > 0 else 0.0
+    fi = mean([max(v - led_stats.avg, 0.0) for v in led]) / led_stats.avg if led_stats.avg > 0 else 0.0
     band = ieee1789_band(pf, 2 * c.frequency)
-    # waveform over a whole period: second half mirrors the first
-    wt, wv, wi, wb, wl = [], [], [], [], []
-    step = max(1, n // (nw // 2))
-    for r, lc in zip(rows[::step], led[::step]):
-        wt.append(r[0]); wv.append(r[1]); wi.append(r[5]); wb.append(r[4]); wl.append(lc)  # fmt: skip
-    wt += [t + half for t in wt]
-    wv += [-v for v in wv]
-    wi += [-v for v in wi]
-    wb += wb
-    wl += wl
+    # waveform over a whole period on a uniform grid; the second half mirrors the first
+    wave = []
+    si = 0
+    for q in range(nw // 2):
+        t = half * q / (nw // 2)
+        while si + 1 < len(segs) and t >= segs[si][1]:
+            si += 1
+        r = sample(si, t)
+        wave.append((t, r[1], r[5], r[4], sum(s.count * p for s, p in zip(sol.loads, r[7]))))
+    wave += [(t + half, -v, -i, b, lc) for t, v, i, b, lc in wave]
     return SteadyState(
         led_current=led_stats,
-        string_current=tuple(_stats([r[7][k] for r in rows]) for k in range(len(sol.loads))),
-        bus_voltage=_stats(vbus),
+        string_current=tuple(stats([r[7][k] for r in rows]) for k in range(len(sol.loads))),
+        bus_voltage=stats(vbus),
         ripple_pp=max(vbus) - min(vbus),
         percent_flicker=pf,
         flicker_index=fi,
@@ -604,11 +648,11 @@ def _measure(sol: Solver, segs: list[tuple[float, float, Mode, Vec]], n: int, nw
         flicker_band=band.name,
         low_risk_limit=band.low_risk_limit,
         no_effect_limit=band.no_effect_limit,
-        dropper_current_rms=math.sqrt(sum(v * v for v in i_cd) / n) if c.dropper else 0.0,
+        dropper_current_rms=math.sqrt(mean([v * v for v in i_cd])) if c.dropper else 0.0,
         dropper_voltage_peak=max(abs(r[2]) for r in rows) if c.dropper else 0.0,
-        smoothing_ripple_current_rms=math.sqrt(sum(v * v for v in icap) / n),
-        diode_current_avg=sum(idc) / n / 2,
-        diode_current_rms=math.sqrt(sum(v * v for v in idc) / n / 2),
+        smoothing_ripple_current_rms=math.sqrt(mean([v * v for v in icap])),
+        diode_current_avg=mean(idc) / 2,
+        diode_current_rms=math.sqrt(mean([v * v for v in idc]) / 2),
         diode_current_peak=max(idc),
         line_current_rms=irms,
         input_power=pin,
@@ -616,7 +660,7 @@ def _measure(sol: Solver, segs: list[tuple[float, float, Mode, Vec]], n: int, nw
         power_factor=pin / s_app if s_app > 0 else 0.0,
         led_power=led_power,
         losses=losses,
-        waveform={"t": tuple(wt), "mains_V": tuple(wv), "line_current_A": tuple(wi), "bus_V": tuple(wb), "led_current_A": tuple(wl)},
+        waveform={k: tuple(w[j] for w in wave) for j, k in enumerate(("t", "mains_V", "line_current_A", "bus_V", "led_current_A"))},
         iterations=sol.iterations,
         steps=sol.steps,
     )

@@ -121,7 +121,7 @@ def metric_size(mm2: float) -> WireSize:
     return WireSize(metric_name(mm2), "metric", area, math.sqrt(4 * area / math.pi))
 
 
-AWG_SIZES = tuple(awg_size(n) for n in range(30, -4, -1))  # thin to thick
+AWG_SIZES = tuple(awg_size(n) for n in range(56, -4, -1))  # thin to thick
 METRIC_SIZES = tuple(metric_size(a) for a in IEC60228)
 
 

@@ -1,0 +1,210 @@
+"""Unit tests and properties of the closed-form calculators."""
+
+from __future__ import annotations
+
+import math
+
+import pytest
+from hypothesis import example, given, settings
+from hypothesis import strategies as st
+
+from lampcalc import dropper
+from lampcalc.api import compute, handle
+from lampcalc.calculators import CALCULATORS
+from lampcalc.errors import CalcError, InputError
+from lampcalc.led import LedModule
+from lampcalc.schema import evaluate
+from lampcalc.units import awg_area, awg_number, format_value
+from lampcalc.wire import size_from_area
+
+
+def test_every_calculator_answers_its_defaults() -> None:
+    for name in CALCULATORS:
+        ans = compute(name, {})
+        assert ans["ok"], (name, ans)
+
+
+def test_mains_calculators_carry_cautions() -> None:
+    for name, calc in CALCULATORS.items():
+        ans = compute(name, {})
+        if calc.mains:
+            assert any("Local codes" in c for c in ans["cautions"]), name
+
+
+def test_led_fit_from_two_points() -> None:
+    m = LedModule.from_points(0.02, 2.72, 0.06, 2.80)
+    assert m.r_dynamic == pytest.approx(2.0)
+    assert m.v0 == pytest.approx(2.68)
+    assert m.current(m.voltage(0.04)) == pytest.approx(0.04)
+
+
+def test_led_band_and_tempco() -> None:
+    m = LedModule(v0=2.7, r_dynamic=2.0, vf_spread=0.05, current_ref=0.02)
+    assert m.voltage(0.02, corner=+1) - m.voltage(0.02) == pytest.approx(0.05 * 2.74)
+    assert m.voltage(0.02, 75.0) < m.voltage(0.02, 25.0)
+
+
+def test_bad_module_points_are_input_errors() -> None:
+    with pytest.raises(InputError):
+        LedModule.from_points(0.02, 2.9, 0.02, 3.0)
+    with pytest.raises(InputError):
+        LedModule.from_points(0.02, 3.0, 0.06, 2.9)
+
+
+def test_unknown_input_and_all_problems_reported() -> None:
+    ans = compute("dropper", {"capacitance": "1", "bus_voltage": "abc", "nonsense": "1"})
+    assert not ans["ok"]
+    fields = {e["field"] for e in ans["errors"]}
+    assert {"capacitance", "bus_voltage", "nonsense"} <= fields
+
+
+def test_range_limits() -> None:
+    ans = compute("dropper", {"capacitance": "-1 uF"})
+    assert ans["errors"][0]["field"] == "capacitance"
+    assert "more than" in ans["errors"][0]["expected"]
+
+
+def test_region_fills_mains_and_custom_requires_values() -> None:
+    r = evaluate(CALCULATORS["dropper"], {"region": "120-60"})
+    assert r.values["peak_voltage"] == pytest.approx(169.7, rel=1e-3)
+    ans = compute("dropper", {"region": "custom"})
+    assert not ans["ok"] and {e["field"] for e in ans["errors"]} >= {"mains_voltage", "frequency"}
+
+
+def test_bus_above_crest_is_no_solution() -> None:
+    ans = compute("dropper", {"bus_voltage": "400 V"})
+    assert not ans["ok"] and ans["errors"][0]["field"] == "bus_voltage"
+
+
+def test_dropper_bank_steps() -> None:
+    r = evaluate(CALCULATORS["dropper"], {"stock_capacitance": "0.47 uF", "target_current": "40 mA"})
+    assert r.values["bank_count"] == math.ceil(float(r.values["capacitance_needed"]) / 0.47e-6)  # type: ignore[arg-type]
+    currents = [row["led_current_avg"] for row in r.rows]
+    assert currents == sorted(currents) and len(currents) == r.values["bank_count"]
+
+
+def test_frequency_mismatch_60_over_50_is_20_percent() -> None:
+    r = evaluate(CALCULATORS["dropper"], {})
+    assert r.values["led_current_other_frequency"] / r.values["led_current_avg"] == pytest.approx(1.2)  # type: ignore[operator]
+
+
+def test_string_cv_pick_keeps_headroom() -> None:
+    r = evaluate(CALCULATORS["string"], {"supply": "cv", "supply_voltage": "24 V", "current": "20 mA"})
+    assert float(r.values["headroom"]) >= 0.10  # type: ignore[arg-type]
+    assert r.values["string_current_min"] <= r.values["string_current"] <= r.values["string_current_max"]  # type: ignore[operator]
+
+
+def test_string_cc_fits_window() -> None:
+    r = evaluate(CALCULATORS["string"], {"supply": "cc", "driver_current": "350 mA", "current_max": "120 mA"})
+    assert 9 <= float(r.values["voltage_hot"]) and float(r.values["voltage_cold"]) <= 36  # type: ignore[arg-type]
+    assert float(r.values["string_current"]) <= 0.120  # type: ignore[arg-type]
+
+
+def test_string_dropper_sensitivity_rises_with_bus() -> None:
+    r = evaluate(CALCULATORS["string"], {"supply": "dropper", "current": "30 mA"})
+    sens = [row["sensitivity"] for row in r.rows]
+    assert sens == sorted(sens)
+    caps = [row["capacitance"] for row in r.rows]
+    assert caps == sorted(caps)
+
+
+def test_wire_smallest_size_meets_limit() -> None:
+    r = evaluate(CALCULATORS["wire"], {"size": "18 AWG", "length": "10 m", "current": "2 A", "supply_voltage": "12 V", "drop_limit": "3 %"})
+    best = str(r.values["smallest_size"])
+    n = awg_number(best)
+    assert n is not None
+    r2 = evaluate(CALCULATORS["wire"], {"size": best, "length": "10 m", "current": "2 A", "supply_voltage": "12 V"})
+    assert float(r2.values["drop_fraction"]) <= 0.03  # type: ignore[arg-type]
+    r3 = evaluate(CALCULATORS["wire"], {"size": f"{n + 1} AWG", "length": "10 m", "current": "2 A", "supply_voltage": "12 V"})
+    assert float(r3.values["drop_fraction"]) > 0.03  # type: ignore[arg-type]
+
+
+def test_api_handle_json_round_trip() -> None:
+    import json
+
+    out = json.loads(handle(json.dumps({"kind": "compute", "calculator": "ripple", "inputs": {"capacitance": "220 uF"}})))
+    assert out["ok"] and out["display"]["ripple_pp"].endswith("V")
+    bad = json.loads(handle("not json"))
+    assert not bad["ok"]
+    desc = json.loads(handle('{"kind": "describe"}'))
+    assert {c["name"] for c in desc["calculators"]} == set(CALCULATORS)
+
+
+# --- properties ----------------------------------------------------------------------
+
+@given(c1=st.floats(1e-8, 1e-4), k=st.floats(1.001, 10), v=st.floats(80, 280), bus=st.floats(0, 300))
+def test_more_capacitance_more_current(c1: float, k: float, v: float, bus: float) -> None:
+    a = dropper.average_current(v, 50, c1, bus, 0.9)
+    b = dropper.average_current(v, 50, c1 * k, bus, 0.9)
+    assert b >= a
+    if a > 0:
+        assert b > a
+
+
+@given(v=st.floats(80, 280), c=st.floats(1e-8, 1e-4), bus=st.floats(0, 390))
+def test_capacitor_rms_at_least_average(v: float, c: float, bus: float) -> None:
+    # the rms of |i| is never below its mean
+    assert dropper.capacitor_rms_current(v, 50, c, bus, 0.9) >= dropper.average_current(v, 50, c, bus, 0.9) * (1 - 1e-12)
+
+
+@given(n=st.integers(-3, 56))
+@example(n=-3)
+@example(n=56)
+def test_awg_diameter_round_trip(n: int) -> None:
+    assert awg_number(size_from_area(awg_area(n)).name) == n
+
+
+@given(vs=st.floats(5, 60), i=st.floats(1e-3, 1.0), v0=st.floats(1.5, 4.0), rd=st.floats(0, 5))
+def test_cv_power_in_equals_led_plus_ballast(vs: float, i: float, v0: float, rd: float) -> None:
+    from lampcalc.strings import cv_options
+
+    m = LedModule(v0=v0, r_dynamic=rd)
+    for o in cv_options(m, vs, 0.0, i, 25.0, 25.0, "E24", 0.5):
+        led = o.series * m.voltage(o.current) * o.current
+        assert vs * o.current == pytest.approx(led + o.current**2 * o.ballast, rel=1e-9)
+
+
+def _value_for(p: object, draw: st.DrawFn) -> object:
+    from lampcalc.schema import Param
+
+    assert isinstance(p, Param)
+    if p.dim in ("choice", "region"):
+        from lampcalc.regions import PRESETS
+
+        return draw(st.sampled_from(p.choices or tuple(PRESETS)))
+    if p.dim == "text":
+        return draw(st.sampled_from(["22 uF", "1 V", "x"]))
+    lo = p.minimum if p.minimum is not None else -1e3
+    hi = p.maximum if p.maximum is not None else 1e3
+    x = draw(st.floats(lo, hi, allow_nan=False))
+    if p.dim == "count":
+        x = float(round(x))
+    return format_value(x, p.dim, None)
+
+
+@st.composite
+def calculator_inputs(draw: st.DrawFn) -> tuple[str, dict[str, object]]:
+    name = draw(st.sampled_from(sorted(CALCULATORS)))
+    calc = CALCULATORS[name]
+    chosen = draw(st.lists(st.sampled_from([p.name for p in calc.params]), unique=True, max_size=6))
+    return name, {k: _value_for(calc.param(k), draw) for k in chosen}
+
+
+@settings(max_examples=400, deadline=None)
+@given(calculator_inputs())
+def test_accepted_inputs_give_finite_results_rejected_raise_input_error(case: tuple[str, dict[str, object]]) -> None:
+    name, inputs = case
+    try:
+        r = evaluate(CALCULATORS[name], inputs)
+    except CalcError:
+        return
+    for k, v in r.values.items():
+        if isinstance(v, float):
+            assert not math.isnan(v), k
+
+
+@settings(max_examples=200, deadline=None)
+@given(name=st.sampled_from(sorted(CALCULATORS)), junk=st.dictionaries(st.text(max_size=8), st.one_of(st.text(max_size=12), st.floats(), st.integers(), st.none()), max_size=4))
+def test_junk_never_raises_other_exceptions(name: str, junk: dict[str, object]) -> None:
+    ans = compute(name, junk)
+    assert isinstance(ans["ok"], bool)

@@ -1,0 +1,108 @@
+"""The steady-state solver: limits, conservation, errors."""
+
+from __future__ import annotations
+
+import math
+
+import pytest
+
+from lampcalc import dropper, ripple
+from lampcalc.design import parse_design
+from lampcalc.errors import InputError, NoSolutionError
+from lampcalc.steady import Bridge, Circuit, StringLoad, solve
+
+
+def base(**kw: object) -> Circuit:
+    args: dict[str, object] = dict(
+        mains_voltage=230.0, frequency=50.0, series_resistance=47.0, dropper=1e-6, dropper_bleeder=470e3,
+        bridge=Bridge("line", 0.9, 0.05), smoothing=220e-6, esr=0.5, bleeder=220e3, strings=(StringLoad(34 * 2.7, 34 * 2.0, 2),),
+    )  # fmt: skip
+    args.update(kw)
+    return Circuit(**args)  # type: ignore[arg-type]
+
+
+@pytest.mark.parametrize(
+    "c",
+    [base(), base(series_resistance=0.0, esr=0.0), base(bridge=Bridge("exponential", resistance=0.1)), base(dropper=None, series_resistance=300.0),
+     base(frequency=60.0, mains_voltage=120.0, strings=(StringLoad(20 * 2.7, 20 * 2.0, 1),))],
+    ids=["dropper", "no-series-R", "exponential", "resistor-fed", "120V"],
+)  # fmt: skip
+def test_power_balance_within_0_1_percent(c: Circuit) -> None:
+    st = solve(c)
+    assert st.input_power == pytest.approx(st.led_power + sum(st.losses.values()), rel=1e-3)
+    assert st.power_factor <= 1.0
+
+
+def test_dropper_charge_balance_over_a_period() -> None:
+    # the dropper capacitor's current averages to zero over a period: its voltage is mirror-symmetric
+    st = solve(base())
+    w = st.waveform
+    n = len(w["t"])
+    assert abs(sum(w["line_current_A"]) / n) < 1e-9 * st.line_current_rms * n
+
+
+def test_approaches_charge_balance_in_its_valid_limit() -> None:
+    # large smoothing, no series resistor, ideal-ish diodes: the closed form I = 4 f C (Vpk - Vbus - 2 Vd) should hold
+    c = base(series_resistance=0.0, esr=0.0, smoothing=10e-3, bleeder=None, bridge=Bridge("line", 0.9, 0.01), dropper_bleeder=None)
+    st = solve(c)
+    closed = dropper.average_current(230.0, 50.0, 1e-6, st.bus_voltage.avg, 0.9)
+    assert st.led_current.avg == pytest.approx(closed, rel=2e-3)  # within 0.2 %
+
+    # ripple: the closed form I/(2 f C) assumes the capacitor carries the load all the ripple period; a stiff
+    # resistor feed with the bus near the crest (short conduction) is its valid limit: within 5 %, never below
+    r = solve(Circuit(230.0, 50.0, series_resistance=2.0, dropper=None, bridge=Bridge("line", 0.9, 0.01), smoothing=1e-3,
+                      strings=(StringLoad(300.0, 3000.0, 1),)))  # fmt: skip
+    pp = ripple.ripple_pp(r.led_current.avg, 50.0, 1e-3)
+    assert r.ripple_pp == pytest.approx(pp, rel=0.05)
+    assert r.ripple_pp < pp
+
+
+def test_more_dropper_more_current() -> None:
+    a = solve(base(dropper=1.0e-6)).led_current.avg
+    b = solve(base(dropper=1.5e-6)).led_current.avg
+    assert b > a * 1.3
+
+
+def test_no_conduction_is_an_error() -> None:
+    with pytest.raises(NoSolutionError, match="no conduction"):
+        solve(base(strings=(StringLoad(400.0, 50.0, 1),)))
+
+
+def test_nonphysical_values_are_input_errors() -> None:
+    with pytest.raises(InputError, match="smoothing.capacitance"):
+        solve(base(smoothing=-1.0))
+    with pytest.raises(InputError, match="strings"):
+        solve(base(strings=(StringLoad(90.0, 0.0, 1),)))
+
+
+def test_mismatched_strings_share_unevenly() -> None:
+    c = base(strings=(StringLoad(34 * 2.7, 34 * 2.0, 1), StringLoad(34 * 2.7 + 1.5, 34 * 2.0, 1)))
+    st = solve(c)
+    lo, hi = sorted(s.avg for s in st.string_current)
+    assert hi > lo * 1.05
+
+
+def test_design_file_round_trip() -> None:
+    d = parse_design(
+        """
+name = "t"
+[mains]
+voltage = "230 V"
+frequency = 50
+[module]
+points = [["20 mA", "2.74 V"], ["60 mA", "2.82 V"]]
+current_max = "60 mA"
+[array]
+series = 34
+parallel = 2
+[dropper]
+capacitance = "1 uF"
+series_resistance = 47
+[smoothing]
+capacitance = "220 uF"
+"""
+    )
+    c = d.circuit()
+    assert c.strings[0].knee == pytest.approx(34 * 2.70)
+    assert c.strings[0].resistance == pytest.approx(34 * 2.0)
+    assert math.isclose(c.dropper or 0, 1e-6)
