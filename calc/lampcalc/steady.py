@@ -515,7 +515,7 @@ class SteadyState:
 
 def initial_state(c: Circuit) -> Vec:
     """A closed-form start: bus where the charge-balance supply meets the
-    load line, dropper voltage as held since the last crest."""
+    load line, dropper voltage from the ideal-diode waveform."""
     vpk = math.sqrt(2) * c.mains_voltage
     a0 = c.bridge.threshold()
 
@@ -539,7 +539,10 @@ def initial_state(c: Circuit) -> Vec:
         else:
             hi = mid
     vb = lo
-    vcd = -max(vpk - vb - a0, 0.0) if c.dropper else 0.0
+    # at t = 0 the dropper holds -(Vpk - Vb') since the last crest, unless the
+    # bridge already conducts (2 Vb' < Vpk), when it follows vs - Vb' = -Vb'
+    vbp = vb + a0
+    vcd = -max(min(vbp, vpk - vbp), 0.0) if c.dropper else 0.0
     return (vcd, vb)
 
 
