@@ -35,6 +35,8 @@ def percent_flicker_from_ripple(mean_current: float, ripple: float) -> float:
     peak-to-peak ripple; the current bottoms at zero when the ripple is large."""
     if mean_current <= 0:
         return 0.0
+    if not math.isfinite(ripple) or ripple >= 2 * mean_current:
+        return 100.0
     hi = mean_current + ripple / 2
     lo = max(mean_current - ripple / 2, 0.0)
     return 100.0 * (hi - lo) / (hi + lo)
