@@ -5,6 +5,7 @@ PY      ?= python3
 VENV    := .venv
 BIN     := $(VENV)/bin
 PORT    ?= 8000
+export NO_MKDOCS_2_WARNING := 1
 DEPS    := $(VENV)/.deps-stamp
 NODE    := node_modules/.stamp
 SYSTEM  := $(VENV)/.system-stamp

@@ -1,0 +1,142 @@
+"""Calculator blocks: find them in Markdown, check them, render their forms."""
+
+from __future__ import annotations
+
+import html
+import json
+import re
+from dataclasses import dataclass, field
+
+from lampcalc.api import compute
+from lampcalc.calculators import CALCULATORS
+from lampcalc.schema import describe, region_presets
+
+FENCE = re.compile(r"^(?P<indent>[ \t]*)```(?P<word>[\w-]+)[ \t]*\n(?P<body>.*?)^(?P=indent)```[ \t]*$", re.S | re.M)
+
+
+class BlockError(ValueError):
+    def __init__(self, index: int, key: str, message: str) -> None:
+        self.index, self.key = index, key
+        super().__init__(f"calculator block {index}: {key}: {message}")
+
+
+@dataclass
+class Block:
+    index: int
+    calculator: str
+    inputs: dict[str, str] = field(default_factory=dict)
+    locked: tuple[str, ...] = ()
+    title: str | None = None
+
+
+def parse_block(index: int, body: str) -> Block:
+    calc = None
+    inputs: dict[str, str] = {}
+    locked: tuple[str, ...] = ()
+    title = None
+    for n, raw in enumerate(body.splitlines(), 1):
+        line = raw.strip()
+        if not line or line.startswith("#"):
+            continue
+        if ":" not in line:
+            raise BlockError(index, f"line {n}", f"expected 'key: value', got {line!r}")
+        key, value = (p.strip() for p in line.split(":", 1))
+        if key == "calculator":
+            calc = value
+        elif key == "lock":
+            locked = tuple(v.strip() for v in value.split(",") if v.strip())
+        elif key == "title":
+            title = value
+        else:
+            inputs[key] = value
+    if calc is None:
+        raise BlockError(index, "calculator", "missing; expected one of " + ", ".join(CALCULATORS))
+    if calc not in CALCULATORS:
+        raise BlockError(index, "calculator", f"got {calc!r}; expected one of " + ", ".join(CALCULATORS))
+    known = {p.name for p in CALCULATORS[calc].params}
+    for k in (*inputs, *locked):
+        if k not in known:
+            raise BlockError(index, k, f"not an input of {calc}; expected one of " + ", ".join(sorted(known)))
+    ans = compute(calc, inputs)
+    if not ans["ok"]:
+        e = ans["errors"][0]
+        raise BlockError(index, e["field"], e["message"])
+    return Block(index, calc, inputs, locked, title)
+
+
+def _esc(s: object) -> str:
+    return html.escape(str(s), quote=True)
+
+
+def render(block: Block, safety_url: str | None) -> str:
+    """The form, its prerendered answer and its declaration as JSON."""
+    calc = CALCULATORS[block.calculator]
+    desc = describe(calc)
+    ans = compute(calc.name, block.inputs)
+    bid = f"lb-{block.calculator}-{block.index}"
+    mode_value = block.inputs.get(calc.mode, calc.param(calc.mode).default) if calc.mode else None
+    rows = []
+    for p in calc.params:
+        value = block.inputs.get(p.name, p.default or "")
+        attrs = f'name="{_esc(p.name)}" id="{bid}-{_esc(p.name)}" data-default="{_esc(value)}"'
+        if p.imperial:
+            attrs += f' data-imperial="{_esc(p.imperial)}"'
+        if p.name in block.locked:
+            attrs += " readonly"
+        hidden = bool(p.modes) and mode_value not in p.modes
+        if p.dim in ("choice", "region"):
+            presets = region_presets()
+            opts = p.choices if p.dim == "choice" else (*presets, "custom")
+            label = {k: str(v["label"]) for k, v in presets.items()} if p.dim == "region" else {}
+            ctl = f"<select {attrs}>" + "".join(
+                f'<option value="{_esc(o)}"{" selected" if o == value else ""}>{_esc(label.get(o, o))}</option>' for o in opts
+            ) + "</select>"
+        else:
+            ph = "from preset" if p.name in ("mains_voltage", "frequency", "mains_tolerance") else ("optional" if p.optional else "")
+            ctl = f'<input type="text" inputmode="text" autocomplete="off" spellcheck="false" {attrs} value="{_esc(value)}" placeholder="{ph}">'
+        modes = f' data-modes="{_esc(" ".join(p.modes))}"' if p.modes else ""
+        rows.append(
+            f'<div class="lb-field"{modes}{" hidden" if hidden else ""}><label for="{bid}-{_esc(p.name)}">{_esc(p.label)}</label>'
+            f'{ctl}<small class="lb-help">{_esc(p.help)}</small><small class="lb-err" role="alert"></small></div>'
+        )
+    outs = []
+    for o in calc.outputs:
+        v = ans["values"].get(o.name)
+        shown = ans["display"][o.name]
+        outs.append(f'<tr data-out="{_esc(o.name)}"{" hidden" if v is None else ""}><th>{_esc(o.label)}</th><td>{_esc(shown)}</td></tr>')
+    has_imperial = any(p.imperial for p in calc.params)
+    caution = ""
+    if calc.mains:
+        link = f' <a href="{_esc(safety_url)}">Read the safety page.</a>' if safety_url else ""
+        caution = f'<p class="lb-caution"><strong>Mains:</strong> no isolation, stored charge. Local codes and licensed practice decide.{link}</p>'
+    title = block.title or calc.title
+    payload = json.dumps({"id": bid, "calculator": calc.name, "declaration": desc, "answer": ans}, sort_keys=True, ensure_ascii=False)
+    payload = payload.replace("</", "<\\/")
+    return (
+        f'<div class="lb-calc" id="{bid}" data-calculator="{_esc(calc.name)}">\n'
+        f'<div class="lb-head"><h3 class="lb-title">{_esc(title)}</h3><span class="lb-engine" aria-live="polite">answers computed at build time</span></div>\n'
+        f'<p class="lb-summary">{_esc(calc.summary)}</p>\n'
+        f'<form class="lb-form" autocomplete="off" onsubmit="return false">{"".join(rows)}'
+        + ('<div class="lb-tools"><button type="button" class="lb-units" data-system="metric">Imperial units</button></div>' if has_imperial else "")
+        + "</form>\n"
+        f'<div class="lb-result"><table class="lb-out"><tbody>{"".join(outs)}</tbody></table>'
+        f'<div class="lb-rows"></div><div class="lb-plot"></div><ul class="lb-warn">{"".join(f"<li>{_esc(w)}</li>" for w in ans["warnings"])}</ul>'
+        f'<details class="lb-notes"><summary>How this is worked out</summary><ul>{"".join(f"<li>{_esc(n)}</li>" for n in ans["notes"])}</ul></details>'
+        f'<p class="lb-share"><a class="lb-link" href="#{bid}">Link to these inputs</a></p></div>\n'
+        f"{caution}\n"
+        f'<script type="application/json" class="lb-data">{payload}</script>\n'
+        "</div>\n"
+    )
+
+
+def replace_blocks(markdown: str, fence: str, safety_url: str | None) -> tuple[str, int]:
+    count = 0
+
+    def sub(m: re.Match[str]) -> str:
+        nonlocal count
+        if m.group("word") != fence:
+            return m.group(0)
+        count += 1
+        return "\n" + render(parse_block(count, m.group("body")), safety_url) + "\n"
+
+    return FENCE.sub(sub, markdown), count

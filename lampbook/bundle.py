@@ -1,0 +1,117 @@
+"""Package the in-page engine: the core as a pure wheel, the Pyodide runtime
+copied from the npm package, a trimmed lock file listing only what the site
+ships, and a service worker whose cache name is the hash of everything it
+precaches."""
+
+from __future__ import annotations
+
+import base64
+import hashlib
+import json
+import os
+import shutil
+import zipfile
+from pathlib import Path
+
+import lampcalc
+
+#: The one Pyodide version the site is built and tested with (package.json pins the same).
+PYODIDE_VERSION = "314.0.7"
+RUNTIME_FILES = ("pyodide.mjs", "pyodide.asm.mjs", "pyodide.asm.wasm", "python_stdlib.zip")
+_EPOCH = (1980, 1, 1, 0, 0, 0)
+
+
+class BundleError(RuntimeError):
+    pass
+
+
+def sha256(path: Path) -> str:
+    return hashlib.sha256(path.read_bytes()).hexdigest()
+
+
+def build_wheel(out_dir: Path) -> Path:
+    """Write lampcalc-VERSION-py3-none-any.whl deterministically."""
+    pkg = Path(lampcalc.__file__).parent
+    version = lampcalc.__version__
+    name = f"lampcalc-{version}-py3-none-any.whl"
+    dist = f"lampcalc-{version}.dist-info"
+    files: list[tuple[str, bytes]] = []
+    for p in sorted(pkg.iterdir()):
+        if p.suffix == ".py" or p.name == "py.typed":
+            files.append((f"lampcalc/{p.name}", p.read_bytes()))
+    files.append((f"{dist}/METADATA", f"Metadata-Version: 2.1\nName: lampcalc\nVersion: {version}\n".encode()))
+    files.append((f"{dist}/WHEEL", b"Wheel-Version: 1.0\nGenerator: lampbook\nRoot-Is-Purelib: true\nTag: py3-none-any\n"))
+    files.append((f"{dist}/top_level.txt", b"lampcalc\n"))
+    record = []
+    for arc, data in files:
+        digest = base64.urlsafe_b64encode(hashlib.sha256(data).digest()).rstrip(b"=").decode()
+        record.append(f"{arc},sha256={digest},{len(data)}")
+    record.append(f"{dist}/RECORD,,")
+    files.append((f"{dist}/RECORD", ("\n".join(record) + "\n").encode()))
+    out_dir.mkdir(parents=True, exist_ok=True)
+    path = out_dir / name
+    with zipfile.ZipFile(path, "w", zipfile.ZIP_DEFLATED) as z:
+        for arc, data in files:
+            info = zipfile.ZipInfo(arc, _EPOCH)
+            info.compress_type = zipfile.ZIP_DEFLATED
+            info.external_attr = 0o644 << 16
+            z.writestr(info, data)
+    return path
+
+
+def find_runtime(configured: str | None, config_dir: str) -> Path:
+    root = Path(configured) if configured else Path(config_dir) / "node_modules" / "pyodide"
+    missing = [f for f in RUNTIME_FILES if not (root / f).is_file()]
+    if missing:
+        raise BundleError(f"Pyodide runtime not found in {root} (missing {', '.join(missing)}); run `npm ci` (the Makefile does)")
+    meta = json.loads((root / "package.json").read_text())
+    if meta.get("version") != PYODIDE_VERSION:
+        raise BundleError(f"Pyodide {meta.get('version')} in {root}; lampbook is pinned to {PYODIDE_VERSION}")
+    return root
+
+
+def install_engine(site_dir: Path, runtime: Path) -> dict[str, str]:
+    """Copy the runtime and the wheel into SITE/engine/, write the trimmed
+    lock file; return the file digests."""
+    eng = site_dir / "engine"
+    eng.mkdir(parents=True, exist_ok=True)
+    for f in RUNTIME_FILES:
+        shutil.copyfile(runtime / f, eng / f)
+    wheel = build_wheel(eng)
+    full = json.loads((runtime / "pyodide-lock.json").read_text())
+    lock = {
+        "info": full["info"],
+        "packages": {
+            "lampcalc": {
+                "name": "lampcalc", "version": lampcalc.__version__, "file_name": wheel.name, "install_dir": "site",
+                "sha256": sha256(wheel), "package_type": "package", "imports": ["lampcalc"], "depends": [],
+                "unvendored_tests": False, "tool": {},
+            }
+        },
+    }  # fmt: skip
+    (eng / "pyodide-lock.json").write_text(json.dumps(lock, indent=1, sort_keys=True))
+    return {p.name: sha256(p) for p in sorted(eng.iterdir())}
+
+
+def precache_list(site_dir: Path) -> list[str]:
+    out = []
+    for root, _, files in os.walk(site_dir):
+        for f in files:
+            p = Path(root) / f
+            rel = p.relative_to(site_dir).as_posix()
+            if rel in ("sw.js",) or rel.endswith((".map", ".gz")) or rel.startswith("engine/") and f.endswith(".json") and f != "pyodide-lock.json":
+                continue
+            out.append(rel)
+    return sorted(out)
+
+
+def write_service_worker(site_dir: Path, template: str) -> str:
+    files = precache_list(site_dir)
+    h = hashlib.sha256()
+    for rel in files:
+        h.update(rel.encode())
+        h.update(hashlib.sha256((site_dir / rel).read_bytes()).digest())
+    version = h.hexdigest()[:16]
+    manifest = json.dumps({"version": version, "files": files}, sort_keys=True)
+    (site_dir / "sw.js").write_text(template.replace("/*LAMPBOOK_PRECACHE*/null", manifest))
+    return version

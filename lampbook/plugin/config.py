@@ -1,0 +1,21 @@
+from __future__ import annotations
+
+from mkdocs.config import base
+from mkdocs.config import config_options as c
+
+
+class LampbookConfig(base.Config):
+    enabled = c.Type(bool, default=True)
+    """Turn the plugin off (calculator blocks are then left as code)."""
+
+    fence = c.Type(str, default="lampbook")
+    """Info word of the fenced blocks that become calculators."""
+
+    runtime = c.Optional(c.Dir(exists=True))
+    """Folder holding the Pyodide npm package; default: node_modules/pyodide next to mkdocs.yml."""
+
+    engine = c.Type(bool, default=True)
+    """Ship the in-page engine (Pyodide, the core's wheel, the worker and the service worker)."""
+
+    load_timeout = c.Type(int, default=60)
+    """Seconds the page waits for the engine before saying it could not start."""

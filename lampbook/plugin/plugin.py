@@ -1,0 +1,92 @@
+"""Event glue. Parsing and rendering live in :mod:`lampbook.blocks`, bundling
+in :mod:`lampbook.bundle`."""
+
+from __future__ import annotations
+
+import json
+import shutil
+from pathlib import Path
+from typing import Any
+
+from mkdocs.exceptions import PluginError
+from mkdocs.plugins import BasePlugin, get_plugin_logger
+
+from .. import blocks, bundle
+from .config import LampbookConfig
+
+log = get_plugin_logger(__name__)
+ASSETS = Path(__file__).resolve().parent.parent / "assets"
+SITE_ASSETS = ("lampbook.css", "widget.js", "worker.js", "icon.svg", "icon-192.png", "icon-512.png", "offline.html")
+
+
+class LampbookPlugin(BasePlugin[LampbookConfig]):
+    def on_config(self, config: Any) -> Any:
+        if not self.config.enabled:
+            return config
+        config.extra_css.append("assets/lampbook/lampbook.css")
+        from mkdocs.config.config_options import ExtraScriptValue
+
+        s = ExtraScriptValue("assets/lampbook/widget.js")
+        s.type = "module"
+        config.extra_javascript.append(s)
+        self._safety = None
+        return config
+
+    def on_files(self, files: Any, config: Any) -> Any:
+        self._safety = "safety.md" if files.get_file_from_path("safety.md") else None
+        return files
+
+    def on_page_markdown(self, markdown: str, page: Any, config: Any, files: Any) -> str:
+        if not self.config.enabled:
+            return markdown
+        safety = None
+        if self._safety:
+            depth = page.file.url.count("/") if not page.file.url.endswith("/") else page.file.url.count("/")
+            safety = "../" * depth + "safety/"
+            if page.file.src_uri == "safety.md":
+                safety = None
+        try:
+            out, n = blocks.replace_blocks(markdown, self.config.fence, safety)
+        except blocks.BlockError as e:
+            raise PluginError(f"lampbook: {page.file.src_uri}: {e}") from None
+        if n:
+            log.debug("%s: %d calculator blocks", page.file.src_uri, n)
+        return out
+
+    def on_post_page(self, output: str, page: Any, config: Any) -> str:
+        if not self.config.enabled:
+            return output
+        base = "../" * page.url.count("/") if page.url else ""
+        meta = (
+            f'<link rel="manifest" href="{base}manifest.webmanifest">'
+            f'<meta name="theme-color" content="#26323a">'
+            f'<script type="application/json" id="lb-site">{json.dumps({"root": base or "./", "timeout": self.config.load_timeout, "engine": self.config.engine})}</script>'
+        )
+        return output.replace("</head>", meta + "</head>", 1)
+
+    def on_post_build(self, config: Any) -> None:
+        if not self.config.enabled:
+            return
+        site = Path(config.site_dir)
+        dest = site / "assets" / "lampbook"
+        dest.mkdir(parents=True, exist_ok=True)
+        for name in SITE_ASSETS:
+            shutil.copyfile(ASSETS / name, dest / name)
+        shutil.copyfile(ASSETS / "offline.html", site / "offline.html")
+        manifest = {
+            "name": config.site_name, "short_name": config.site_name[:12], "start_url": "./", "scope": "./", "display": "standalone",
+            "background_color": "#f4f1ea", "theme_color": "#26323a",
+            "icons": [{"src": "assets/lampbook/icon-192.png", "sizes": "192x192", "type": "image/png"},
+                      {"src": "assets/lampbook/icon-512.png", "sizes": "512x512", "type": "image/png"},
+                      {"src": "assets/lampbook/icon.svg", "sizes": "any", "type": "image/svg+xml"}],
+        }  # fmt: skip
+        (site / "manifest.webmanifest").write_text(json.dumps(manifest, indent=1, sort_keys=True))
+        if not self.config.engine:
+            return
+        try:
+            runtime = bundle.find_runtime(self.config.runtime, str(Path(config.config_file_path).parent))
+            bundle.install_engine(site, runtime)
+        except bundle.BundleError as e:
+            raise PluginError(f"lampbook: {e}") from None
+        version = bundle.write_service_worker(site, (ASSETS / "sw.js").read_text())
+        log.info("lampbook: engine bundled, offline cache %s", version)
