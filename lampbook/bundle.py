@@ -10,6 +10,7 @@ import hashlib
 import json
 import os
 import shutil
+import subprocess
 import zipfile
 from pathlib import Path
 
@@ -70,13 +71,39 @@ def find_runtime(configured: str | None, config_dir: str) -> Path:
     return root
 
 
-def install_engine(site_dir: Path, runtime: Path) -> dict[str, str]:
+def compiled_stdlib(runtime: Path, cache_dir: Path) -> Path:
+    """The standard library byte-compiled by Pyodide itself on Node, cached
+    outside the site by the digest of its inputs."""
+    script = Path(__file__).resolve().parent / "assets" / "pycompile.mjs"
+    src = runtime / "python_stdlib.zip"
+    key = hashlib.sha256((sha256(src) + sha256(script) + PYODIDE_VERSION).encode()).hexdigest()[:20]
+    out = cache_dir / f"python_stdlib-{key}.zip"
+    if out.is_file():
+        return out
+    node = shutil.which("node")
+    if node is None:
+        raise BundleError("node is needed to byte-compile the standard library (set compile_stdlib: false to ship it as source)")
+    cache_dir.mkdir(parents=True, exist_ok=True)
+    tmp = out.with_suffix(".tmp")
+    proc = subprocess.run([node, str(script), str(runtime), str(src), str(tmp)], capture_output=True, text=True, timeout=600)
+    if proc.returncode != 0 or not tmp.is_file():
+        raise BundleError("byte-compiling the standard library failed: " + (proc.stderr or proc.stdout)[-800:])
+    with zipfile.ZipFile(tmp) as z:
+        names = set(z.namelist())
+    if "json/__init__.pyc" not in names or "json/__init__.py" in names:
+        raise BundleError("byte-compiled standard library looks wrong (json/__init__.pyc missing)")
+    tmp.replace(out)
+    return out
+
+
+def install_engine(site_dir: Path, runtime: Path, stdlib: Path | None = None) -> dict[str, str]:
     """Copy the runtime and the wheel into SITE/engine/, write the trimmed
-    lock file; return the file digests."""
+    lock file; return the file digests. ``stdlib`` replaces the runtime's
+    standard library zip (the byte-compiled one)."""
     eng = site_dir / "engine"
     eng.mkdir(parents=True, exist_ok=True)
     for f in RUNTIME_FILES:
-        shutil.copyfile(runtime / f, eng / f)
+        shutil.copyfile(stdlib if (stdlib and f == "python_stdlib.zip") else runtime / f, eng / f)
     wheel = build_wheel(eng)
     full = json.loads((runtime / "pyodide-lock.json").read_text())
     lock = {

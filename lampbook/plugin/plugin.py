@@ -84,8 +84,10 @@ class LampbookPlugin(BasePlugin[LampbookConfig]):
         if not self.config.engine:
             return
         try:
-            runtime = bundle.find_runtime(self.config.runtime, str(Path(config.config_file_path).parent))
-            bundle.install_engine(site, runtime)
+            here = Path(config.config_file_path).parent
+            runtime = bundle.find_runtime(self.config.runtime, str(here))
+            stdlib = bundle.compiled_stdlib(runtime, here / self.config.cache_dir) if self.config.compile_stdlib else None
+            bundle.install_engine(site, runtime, stdlib)
         except bundle.BundleError as e:
             raise PluginError(f"lampbook: {e}") from None
         version = bundle.write_service_worker(site, (ASSETS / "sw.js").read_text())
