@@ -60,7 +60,7 @@ def parse_block(index: int, body: str) -> Block:
     ans = compute(calc, inputs)
     if not ans["ok"]:
         e = ans["errors"][0]
-        raise BlockError(index, e["field"], e["message"])
+        raise BlockError(index, e["field"] or "inputs", f"got {e['value']}; expected {e['expected']}" if e.get("expected") else e["message"])
     return Block(index, calc, inputs, locked, title)
 
 
@@ -122,7 +122,7 @@ def render(block: Block, safety_url: str | None) -> str:
         f'<div class="lb-result"><table class="lb-out"><tbody>{"".join(outs)}</tbody></table>'
         f'<div class="lb-rows"></div><div class="lb-plot"></div><ul class="lb-warn">{"".join(f"<li>{_esc(w)}</li>" for w in ans["warnings"])}</ul>'
         f'<details class="lb-notes"><summary>How this is worked out</summary><ul>{"".join(f"<li>{_esc(n)}</li>" for n in ans["notes"])}</ul></details>'
-        f'<p class="lb-share"><a class="lb-link" href="#{bid}">Link to these inputs</a></p></div>\n'
+        f'<p class="lb-share"><a class="lb-link" href="?lb={bid}#{bid}">Link to these inputs</a></p></div>\n'
         f"{caution}\n"
         f'<script type="application/json" class="lb-data">{payload}</script>\n'
         "</div>\n"

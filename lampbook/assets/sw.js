@@ -7,7 +7,8 @@ const scope = self.registration.scope;
 self.addEventListener("install", (event) => {
   event.waitUntil(
     caches.open(CACHE)
-      .then((c) => c.addAll(PRECACHE.files.map((f) => new URL(f, scope).href)))
+      // bypass the HTTP cache so a new build never stores an old file under its new name
+      .then((c) => c.addAll(PRECACHE.files.map((f) => new Request(new URL(f, scope).href, { cache: "reload" }))))
       .then(() => self.skipWaiting()),
   );
 });

@@ -178,21 +178,23 @@ async function plot(box, decl, ans) {
 <figcaption>${esc(sw.label)}; the dot is the current input.</figcaption></figure>`;
 }
 
-// --- share links -----------------------------------------------------------------
+// --- share links: page/?lb=ID&input=value#ID (a query, not the hash: the theme owns the hash) --------
 function linkFor(box) {
-  const p = new URLSearchParams(inputsOf(box));
-  return `#${box.id}?${p.toString()}`;
+  const p = new URLSearchParams({ lb: box.id, ...inputsOf(box) });
+  return `${location.pathname}?${p.toString()}#${box.id}`;
 }
 
-function fromHash(box) {
-  const h = decodeURIComponent(location.hash.slice(1));
-  const raw = location.hash.slice(1);
-  if (!h.startsWith(box.id + "?")) return;
-  const params = new URLSearchParams(raw.slice(raw.indexOf("?") + 1));
+function fromQuery(box) {
+  const params = new URLSearchParams(location.search);
+  if (params.get("lb") !== box.id) return false;
   for (const [k, v] of params) {
+    if (k === "lb") continue;
     const el = box.querySelector(`.lb-form [name="${CSS.escape(k)}"]`);
-    if (el && !el.readOnly) el.value = v.slice(0, 200);
+    if (!el || el.readOnly) continue;
+    if (el.tagName === "SELECT" && ![...el.options].some((o) => o.value === v)) continue;
+    el.value = v.slice(0, 200);
   }
+  return true;
 }
 
 const timers = new WeakMap();
@@ -215,7 +217,7 @@ function init() {
   for (const box of boxes) {
     box.dataset.live = "1";
     const decl = JSON.parse(box.querySelector(".lb-data").textContent).declaration;
-    fromHash(box);
+    const shared = fromQuery(box);
     showModes(box, decl);
     const later = () => {
       clearTimeout(timers.get(box));
@@ -235,7 +237,7 @@ function init() {
       ev.preventDefault();
       history.replaceState(null, "", linkFor(box));
     });
-    if (engineState === "ready" || location.hash.startsWith("#" + box.id + "?")) run(box);
+    if (engineState === "ready" || shared) run(box);
   }
   setStatus();
 }

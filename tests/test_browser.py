@@ -1,0 +1,223 @@
+"""Browser tier: Playwright drives Debian's Chromium (headless, fresh profile per
+test) against the demo handbook built and served on 127.0.0.1; every request
+to anywhere else is refused and counted."""
+
+from __future__ import annotations
+
+import json
+import re
+import shutil
+from collections.abc import Iterator
+from pathlib import Path
+
+import pytest
+
+from lampcalc.api import compute
+from sites import ROOT, Server, build
+
+pytestmark = pytest.mark.browser
+
+CHROMIUM = "/usr/bin/chromium"
+ARGS = ["--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking",
+        "--disable-component-update", "--disable-sync"]  # fmt: skip
+ARTIFACTS = ROOT / "test-artifacts"
+
+
+@pytest.fixture(scope="module")
+def demo(tmp_path_factory: pytest.TempPathFactory) -> Iterator[tuple[Path, Server]]:
+    folder = tmp_path_factory.mktemp("demo")
+    shutil.copytree(ROOT / "docs", folder / "docs")
+    y = (ROOT / "mkdocs.yml").read_text() + f"\n"
+    y = y.replace("  - lampbook\n", f"  - lampbook:\n      runtime: {ROOT / 'node_modules' / 'pyodide'}\n      cache_dir: {ROOT / '.cache' / 'lampbook'}\n")
+    (folder / "mkdocs.yml").write_text(y)
+    r = build(folder)
+    assert r.returncode == 0, r.stderr
+    srv = Server(folder / "site")
+    yield folder, srv
+    srv.close()
+
+
+@pytest.fixture
+def browser() -> Iterator[object]:
+    from playwright.sync_api import sync_playwright
+
+    with sync_playwright() as p:
+        b = p.chromium.launch(executable_path=CHROMIUM, args=ARGS)
+        yield b
+        b.close()
+
+
+class Visit:
+    def __init__(self, browser: object, base: str, **ctx: object) -> None:
+        self.ctx = browser.new_context(service_workers="allow", **ctx)  # type: ignore[attr-defined]
+        self.foreign: list[str] = []
+        self.ctx.route(re.compile(r"^(?!http://127\.0\.0\.1:).*"), self._refuse)
+        self.page = self.ctx.new_page()
+        self.errors: list[str] = []
+        self.page.on("pageerror", lambda e: self.errors.append(str(e)))
+        self.base = base
+
+    def _refuse(self, route: object) -> None:
+        self.foreign.append(route.request.url)  # type: ignore[attr-defined]
+        route.abort()  # type: ignore[attr-defined]
+
+    def open(self, path: str) -> None:
+        self.page.goto(self.base + path)
+
+    def ready(self) -> None:
+        self.page.wait_for_selector(".lb-engine[data-state^=ready]", timeout=90000)
+
+    def until(self, expr: str, timeout: float = 90.0) -> None:
+        """Poll an async JavaScript expression until it is true (wait_for_function takes a promise as truthy)."""
+        import time
+
+        end = time.monotonic() + timeout
+        while time.monotonic() < end:
+            if self.page.evaluate(f"(async () => Boolean(await ({expr})))()"):
+                return
+            time.sleep(0.25)
+        raise AssertionError(f"timed out waiting for {expr}")
+
+    def offline_ready(self) -> None:
+        self.until("navigator.serviceWorker.ready.then(r => r.active && r.active.state === 'activated')")
+        self.until("navigator.serviceWorker.controller !== null")
+
+    def computed(self, box: str, before: int) -> None:
+        self.page.wait_for_function(f"Number(document.querySelector('#{box}').dataset.computed || 0) > {before}", timeout=30000)
+
+    def count(self, box: str) -> int:
+        return int(self.page.evaluate(f"Number(document.querySelector('#{box}').dataset.computed || 0)"))
+
+    def out(self, box: str, name: str) -> str:
+        return self.page.locator(f"#{box} tr[data-out={name}] td").inner_text()
+
+    def set(self, box: str, name: str, value: str) -> None:
+        before = self.count(box)
+        el = self.page.locator(f"#{box} [name={name}]")
+        if el.evaluate("e => e.tagName") == "SELECT":
+            el.select_option(value)
+        else:
+            el.fill(value)
+        self.computed(box, before)
+
+
+CASES = [
+    ("calculators/dropper/", "lb-dropper-1", "dropper", {"capacitance": "2.2 uF"}, "led_current_avg"),
+    ("calculators/dropper/", "lb-dropper-2", "dropper", {"stock_capacitance": "0.47 uF"}, "bank_count"),
+    ("calculators/strings/", "lb-string-1", "string", {"supply_voltage": "36 V"}, "series"),
+    ("calculators/strings/", "lb-string-2", "string", {"driver_current": "700 mA"}, "parallel"),
+    ("calculators/ripple/", "lb-ripple-1", "ripple", {"capacitance": "470 uF"}, "ripple_pp"),
+    ("calculators/wire/", "lb-wire-1", "wire", {"size": "14 AWG"}, "drop"),
+    ("calculators/module/", "lb-module-1", "module", {"current": "50 mA"}, "vf"),
+    ("calculators/preferred/", "lb-preferred-1", "preferred", {"value": "5000"}, "nearest"),
+]
+
+
+def block_inputs(v: Visit, box: str) -> dict[str, str]:
+    data = json.loads(v.page.locator(f"#{box} .lb-data").inner_text())
+    return {k: val for k, val in v.page.evaluate(
+        f"""Object.fromEntries([...document.querySelectorAll('#{box} .lb-form [name]')]
+            .filter(e => !e.closest('.lb-field').hidden && e.value.trim() !== '').map(e => [e.name, e.value]))"""
+    ).items()} if data else {}
+
+
+@pytest.mark.parametrize(("path", "box", "calc", "change", "out"), CASES, ids=[c[1] for c in CASES])
+def test_calculator_computes_after_input_change(demo: tuple[Path, Server], browser: object, path: str, box: str, calc: str,
+                                                change: dict[str, str], out: str) -> None:  # fmt: skip
+    v = Visit(browser, demo[1].url)
+    v.open(path)
+    v.ready()
+    for k, val in change.items():
+        v.set(box, k, val)
+    expected = compute(calc, block_inputs(v, box))
+    assert expected["ok"]
+    assert v.out(box, out) == expected["display"][out]
+    assert not v.foreign and not v.errors
+
+
+def test_error_shows_beside_field(demo: tuple[Path, Server], browser: object) -> None:
+    v = Visit(browser, demo[1].url)
+    v.open("calculators/dropper/")
+    v.ready()
+    v.set("lb-dropper-1", "capacitance", "2.2")
+    err = v.page.locator("#lb-dropper-1 .lb-field.lb-bad .lb-err").inner_text()
+    assert "expected a capacitance" in err
+
+
+def test_prerendered_answer_without_javascript(demo: tuple[Path, Server], browser: object) -> None:
+    v = Visit(browser, demo[1].url, java_script_enabled=False)
+    v.open("calculators/dropper/")
+    assert v.out("lb-dropper-1", "led_current_avg") == compute("dropper", {})["display"]["led_current_avg"]
+
+
+def test_offline_after_one_visit(demo: tuple[Path, Server], browser: object) -> None:
+    v = Visit(browser, demo[1].url)
+    v.open("calculators/ripple/")
+    v.ready()
+    v.offline_ready()
+    v.ctx.set_offline(True)
+    v.page.reload()
+    v.ready()
+    v.set("lb-ripple-1", "capacitance", "1000 uF")
+    assert v.out("lb-ripple-1", "ripple_pp") == compute("ripple", block_inputs(v, "lb-ripple-1"))["display"]["ripple_pp"]
+    # another page, never opened, from the precache
+    v.open("calculators/wire/")
+    v.ready()
+    v.set("lb-wire-1", "length", "20 m")
+    assert v.out("lb-wire-1", "drop") == compute("wire", block_inputs(v, "lb-wire-1"))["display"]["drop"]
+    assert not v.foreign
+
+
+def test_share_link_restores_inputs(demo: tuple[Path, Server], browser: object) -> None:
+    v = Visit(browser, demo[1].url)
+    v.open("calculators/dropper/?lb=lb-dropper-1&capacitance=3.3%20uF&bus_voltage=120%20V#lb-dropper-1")
+    v.ready()
+    v.computed("lb-dropper-1", 0)
+    expected = compute("dropper", {"capacitance": "3.3 uF", "bus_voltage": "120 V"})["display"]["led_current_avg"]
+    assert v.out("lb-dropper-1", "led_current_avg") == expected
+    # a hostile link: the value is escaped, validated like any input, and the error shows beside its field
+    v.open("calculators/dropper/?lb=lb-dropper-1&capacitance=%3Cimg%20src%3Dx%20onerror%3Dalert(1)%3E&region=%22%3E")
+    v.page.wait_for_selector("#lb-dropper-1 .lb-field.lb-bad .lb-err:has-text('expected a capacitance')", timeout=30000)
+    assert v.page.locator("#lb-dropper-1 .lb-field.lb-bad").count() == 1
+    assert v.page.locator("#lb-dropper-1 img").count() == 0
+    assert not v.errors
+
+
+def test_phone_viewport_has_no_horizontal_scroll(demo: tuple[Path, Server], browser: object) -> None:
+    v = Visit(browser, demo[1].url, viewport={"width": 390, "height": 844}, device_scale_factor=2, is_mobile=True, has_touch=True)
+    for path in ("calculators/dropper/", "calculators/strings/", "calculators/wire/"):
+        v.open(path)
+        v.ready()
+        wide = v.page.evaluate("document.documentElement.scrollWidth - window.innerWidth")
+        assert wide <= 0, (path, wide)
+        assert v.page.locator(".lb-form").first.is_visible() and v.page.locator(".lb-out").first.is_visible()
+    ARTIFACTS.mkdir(exist_ok=True)
+    v.open("calculators/dropper/")
+    v.ready()
+    v.page.screenshot(path=str(ARTIFACTS / "phone-dropper.png"), full_page=True)
+
+
+def test_rebuilt_site_replaces_the_cache(tmp_path: Path, browser: object) -> None:
+    folder = tmp_path / "s"
+    from sites import write_site
+
+    write_site(folder, {"index.md": "# One\n\n```lampbook\ncalculator: preferred\n```\n"})
+    assert build(folder).returncode == 0
+    srv = Server(folder / "site")
+    try:
+        v = Visit(browser, srv.url)
+        v.open("")
+        v.ready()
+        v.offline_ready()
+        first = v.page.evaluate("caches.keys()")
+        (folder / "docs" / "index.md").write_text("# Two\n\n```lampbook\ncalculator: preferred\nvalue: 330\n```\n")
+        assert build(folder).returncode == 0
+        v.page.evaluate("navigator.serviceWorker.getRegistration().then(r => r.update())")
+        v.until(f"caches.keys().then(k => k.length === 1 && k[0] !== {json.dumps(first[0])})")
+        v.page.reload()
+        assert v.page.locator("h1").inner_text() == "Two"
+        v.ctx.set_offline(True)
+        v.page.reload()
+        assert v.page.locator("h1").inner_text() == "Two"
+    finally:
+        srv.close()

@@ -1,0 +1,142 @@
+"""Plugin tier: real `mkdocs build` runs on small sites in temporary folders."""
+
+from __future__ import annotations
+
+import hashlib
+import html
+import json
+import re
+from pathlib import Path
+
+import pytest
+
+from lampcalc.api import compute
+from sites import build, write_site
+
+pytestmark = pytest.mark.plugin
+
+PAGE = """# Bench
+
+```lampbook
+calculator: dropper
+region: 120-60
+capacitance: 2.2 uF
+bus_voltage: 90 V
+lock: region
+```
+
+```lampbook
+calculator: wire
+```
+"""
+
+
+@pytest.fixture(scope="module")
+def site(tmp_path_factory: pytest.TempPathFactory) -> Path:
+    folder = write_site(tmp_path_factory.mktemp("site"), {"index.md": PAGE, "safety.md": "# Safety\n"})
+    r = build(folder)
+    assert r.returncode == 0, r.stderr
+    return folder / "site"
+
+
+def payloads(page: str) -> list[dict[str, object]]:
+    return [json.loads(m) for m in re.findall(r'<script type="application/json" class="lb-data">(.*?)</script>', page, re.S)]
+
+
+def test_forms_generated_from_declaration(site: Path) -> None:
+    page = (site / "index.html").read_text()
+    assert page.count('class="lb-calc"') == 2
+    assert 'name="capacitance"' in page and 'value="2.2 uF"' in page
+    assert re.search(r'<select name="region"[^>]*readonly', page)
+    assert "Dropper capacitance" in page  # label from the declaration
+
+
+def test_prerendered_answers_equal_core(site: Path) -> None:
+    page = (site / "index.html").read_text()
+    data = payloads(page)
+    native = compute("dropper", {"region": "120-60", "capacitance": "2.2 uF", "bus_voltage": "90 V"})
+    assert data[0]["answer"] == native
+    shown = re.search(r'<tr data-out="led_current_avg"><th>[^<]*</th><td>([^<]*)</td>', page)
+    assert shown and html.unescape(shown.group(1)) == native["display"]["led_current_avg"]
+
+
+def test_mains_blocks_link_the_safety_page(site: Path) -> None:
+    page = (site / "index.html").read_text()
+    assert 'class="lb-caution"' in page and 'href="safety/"' in page
+
+
+def test_no_foreign_urls_fetched(site: Path) -> None:
+    pat = re.compile(r"""(?:src|href)\s*=\s*["'](?:https?:)?//|url\(\s*["']?(?:https?:)?//|import\s*\(?\s*["']https?://""")
+    for p in site.rglob("*"):
+        if p.suffix in (".html", ".css", ".js", ".mjs", ".webmanifest", ".json") and p.is_file():
+            text = p.read_text(errors="replace")
+            hits = [m.group(0) for m in pat.finditer(text)]
+            # links the reader may click are fine; nothing the browser loads by itself may leave the site
+            hits = [h for h in hits if not h.startswith("href")]
+            assert not hits, (p, hits[:3])
+
+
+def test_engine_bundle_and_lock(site: Path) -> None:
+    eng = site / "engine"
+    lock = json.loads((eng / "pyodide-lock.json").read_text())
+    assert list(lock["packages"]) == ["lampcalc"]
+    entry = lock["packages"]["lampcalc"]
+    assert (eng / entry["file_name"]).is_file()
+    assert hashlib.sha256((eng / entry["file_name"]).read_bytes()).hexdigest() == entry["sha256"]
+    for f in ("pyodide.mjs", "pyodide.asm.mjs", "pyodide.asm.wasm", "python_stdlib.zip"):
+        assert (eng / f).is_file()
+    import zipfile
+
+    names = set(zipfile.ZipFile(eng / "python_stdlib.zip").namelist())
+    assert "json/__init__.pyc" in names and "json/__init__.py" not in names
+
+
+def test_service_worker_precaches_everything(site: Path) -> None:
+    sw = (site / "sw.js").read_text()
+    m = re.search(r"const PRECACHE = (\{.*?\});", sw)
+    assert m
+    pre = json.loads(m.group(1))
+    for must in ("index.html", "engine/pyodide.asm.wasm", "engine/pyodide-lock.json", "assets/lampbook/worker.js", "offline.html",
+                 "manifest.webmanifest"):  # fmt: skip
+        assert must in pre["files"], must
+    for f in pre["files"]:
+        assert (site / f).is_file(), f
+
+
+def test_cache_name_follows_content(tmp_path: Path) -> None:
+    a = write_site(tmp_path / "a", {"index.md": PAGE})
+    assert build(a).returncode == 0
+    v1 = re.search(r'"version": "(\w+)"', (a / "site" / "sw.js").read_text())
+    assert build(a).returncode == 0
+    v2 = re.search(r'"version": "(\w+)"', (a / "site" / "sw.js").read_text())
+    (a / "docs" / "index.md").write_text(PAGE + "\nMore.\n")
+    assert build(a).returncode == 0
+    v3 = re.search(r'"version": "(\w+)"', (a / "site" / "sw.js").read_text())
+    assert v1 and v2 and v3
+    assert v1.group(1) == v2.group(1) != v3.group(1)
+
+
+@pytest.mark.parametrize(
+    ("block", "needle"),
+    [
+        ("calculator: toaster", "calculator block 1: calculator: got 'toaster'"),
+        ("calculator: dropper\nflavour: 3", "calculator block 1: flavour: not an input of dropper"),
+        ("calculator: dropper\ncapacitance: 2.2", "calculator block 1: capacitance: got 2.2; expected a capacitance"),
+        ("region: 230-50", "calculator block 1: calculator: missing"),
+        ("calculator: dropper\njust words", "calculator block 1: line 2"),
+    ],
+)
+def test_bad_blocks_fail_the_build_naming_page_block_key(tmp_path: Path, block: str, needle: str) -> None:
+    folder = write_site(tmp_path, {"bench/page.md": f"# P\n\n```lampbook\n{block}\n```\n"}, engine=False)
+    r = build(folder)
+    assert r.returncode != 0
+    assert "bench/page.md" in r.stderr and needle in r.stderr, r.stderr
+
+
+def test_disabled_plugin_leaves_code(tmp_path: Path) -> None:
+    folder = write_site(tmp_path, {"index.md": PAGE}, engine=False)
+    y = (folder / "mkdocs.yml").read_text().replace("      engine: false", "      enabled: false\n      engine: false")
+    (folder / "mkdocs.yml").write_text(y)
+    r = build(folder)
+    assert r.returncode == 0, r.stderr
+    assert 'class="lb-calc"' not in (folder / "site" / "index.html").read_text()
