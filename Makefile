@@ -9,6 +9,7 @@ export NO_MKDOCS_2_WARNING := 1
 DEPS    := $(VENV)/.deps-stamp
 NODE    := node_modules/.stamp
 SYSTEM  := $(VENV)/.system-stamp
+WHEELS  := .cache/wheels/.stamp
 
 .PHONY: serve build test test-fast lint bench system clean
 
@@ -30,6 +31,13 @@ $(NODE): package.json package-lock.json
 	npm ci --no-audit --no-fund --loglevel=error
 	touch $@
 
+# pure wheels of pytest and hypothesis for the Pyodide tier
+$(WHEELS): tests/pyodide/requirements.txt | $(DEPS)
+	rm -rf .cache/wheels && mkdir -p .cache/wheels
+	$(BIN)/pip download -q --disable-pip-version-check --only-binary=:all: --python-version 3.14 --platform any \
+	  --implementation py --abi none -d .cache/wheels -r tests/pyodide/requirements.txt
+	touch $@
+
 system: $(SYSTEM)
 
 build: $(DEPS) $(NODE)
@@ -43,7 +51,7 @@ lint: $(DEPS)
 	$(BIN)/ruff check calc lampbook tests bench
 	$(BIN)/mypy
 
-test: $(DEPS) $(NODE) $(SYSTEM) lint
+test: $(DEPS) $(NODE) $(SYSTEM) $(WHEELS) lint
 	$(BIN)/python -m pytest
 
 test-fast: $(DEPS)

@@ -25,7 +25,6 @@ import time
 from dataclasses import dataclass
 
 import numpy as np
-
 from lampcalc.steady import Circuit, initial_state
 
 NGSPICE = shutil.which("ngspice")
@@ -70,7 +69,7 @@ def netlist(c: Circuit, periods: int, points_per_period: int = 4000) -> str:
         lines.append(".model DI D(IS=1e-12 N=0.02 CJO=10p)")
     lines += ["Rgp p 0 1e9", "Rgm m 0 1e9", "Rgn n 0 1e9"]
     lines.append(f"Cs p x {c.smoothing:.9g} IC={vcs0:.9g}")
-    lines.append(f"Vcs x y 0")
+    lines.append("Vcs x y 0")
     lines.append(f"Resr y m {max(c.esr, 1e-6):.9g}")
     if c.bleeder:
         lines.append(f"Rb p m {c.bleeder:.9g}")
@@ -87,7 +86,7 @@ def netlist(c: Circuit, periods: int, points_per_period: int = 4000) -> str:
     tstop = periods * T
     tstart = (periods - 2) * T
     tmax = T / points_per_period
-    vecs = " ".join(["v(p,m)", "i(Vline)", "v(in)", "i(Vcs)"] + led)
+    vecs = " ".join(["v(p,m)", "i(Vline)", "v(in)", "i(Vcs)", *led])
     lines += [
         f".options reltol=1e-4 abstol=1e-9 vntol=1e-6 chgtol=1e-16 method=gear itl4=100 temp={b.temperature:.6g} tnom={b.temperature:.6g}",
         ".control",

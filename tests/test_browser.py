@@ -11,7 +11,6 @@ from collections.abc import Iterator
 from pathlib import Path
 
 import pytest
-
 from lampcalc.api import compute
 from sites import ROOT, Server, build
 
@@ -27,7 +26,7 @@ ARTIFACTS = ROOT / "test-artifacts"
 def demo(tmp_path_factory: pytest.TempPathFactory) -> Iterator[tuple[Path, Server]]:
     folder = tmp_path_factory.mktemp("demo")
     shutil.copytree(ROOT / "docs", folder / "docs")
-    y = (ROOT / "mkdocs.yml").read_text() + f"\n"
+    y = (ROOT / "mkdocs.yml").read_text() + "\n"
     y = y.replace("  - lampbook\n", f"  - lampbook:\n      runtime: {ROOT / 'node_modules' / 'pyodide'}\n      cache_dir: {ROOT / '.cache' / 'lampbook'}\n")
     (folder / "mkdocs.yml").write_text(y)
     r = build(folder)

@@ -7,7 +7,6 @@ import math
 import pytest
 from hypothesis import example, given, settings
 from hypothesis import strategies as st
-
 from lampcalc import dropper
 from lampcalc.api import compute, handle
 from lampcalc.calculators import CALCULATORS

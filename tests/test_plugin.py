@@ -9,7 +9,6 @@ import re
 from pathlib import Path
 
 import pytest
-
 from lampcalc.api import compute
 from sites import build, write_site
 

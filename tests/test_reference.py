@@ -11,7 +11,6 @@ from __future__ import annotations
 import math
 
 import pytest
-
 from lampcalc import dropper, eseries, flicker, ripple, wire
 from lampcalc.calculators import CALCULATORS
 from lampcalc.led import LedModule

@@ -8,7 +8,6 @@ percent flicker. The designs are invented to span the range the trade uses.
 from __future__ import annotations
 
 import pytest
-
 from lampcalc.steady import Bridge, Circuit, StringLoad, solve
 from spice import NGSPICE, run
 

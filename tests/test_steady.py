@@ -5,7 +5,6 @@ from __future__ import annotations
 import math
 
 import pytest
-
 from lampcalc import dropper, ripple
 from lampcalc.design import parse_design
 from lampcalc.errors import InputError, NoSolutionError
@@ -69,7 +68,7 @@ def test_no_conduction_is_an_error() -> None:
 
 
 def test_nonphysical_values_are_input_errors() -> None:
-    with pytest.raises(InputError, match="smoothing.capacitance"):
+    with pytest.raises(InputError, match=r"smoothing\.capacitance"):
         solve(base(smoothing=-1.0))
     with pytest.raises(InputError, match="strings"):
         solve(base(strings=(StringLoad(90.0, 0.0, 1),)))

@@ -7,7 +7,6 @@ import math
 import pytest
 from hypothesis import example, given
 from hypothesis import strategies as st
-
 from lampcalc.errors import InputError
 from lampcalc.units import DIMENSIONS, awg_area, format_value, parse
 

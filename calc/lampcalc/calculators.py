@@ -208,14 +208,14 @@ def _string(v: V) -> Result:
         }  # fmt: skip
         if best and best.parallel > 1:
             warnings.append("Parallel strings on one driver share current by their Vf: match the modules or add ballast.")
-        rows = tuple(
+        rows_cc: tuple[Mapping[str, Value], ...] = tuple(
             {"series": float(o.series), "parallel": float(o.parallel), "string_current": o.string_current,
              "voltage_cold": o.voltage_cold, "voltage_hot": o.voltage_hot,
              "rating": "ok" if o.within_rating else "over rating"}
             for o in cc
         )  # fmt: skip
         notes.append("Cold: high Vf end at the cold temperature; hot: low Vf end at the hot temperature.")
-        return Result(values, rows, tuple(notes), tuple(warnings))
+        return Result(values, rows_cc, tuple(notes), tuple(warnings))
     # dropper bus
     vn, _, _, fr = mains_range(v)
     dopts = strings.dropper_options(m, vn, fr, f(v, "mains_plus"), i, f(v, "diode_drop"))
@@ -557,7 +557,7 @@ PREFERRED = Calculator(
 # --- mains presets -------------------------------------------------------------------
 
 def _mains(v: V) -> Result:
-    rows = tuple(
+    rows: tuple[Mapping[str, Value], ...] = tuple(
         {"preset": k, "voltage": p.voltage, "frequency": p.frequency, "low": p.low, "high": p.high,
          "peak_high": p.peak_high, "source": p.source}
         for k, p in PRESETS.items()

@@ -12,14 +12,13 @@ from __future__ import annotations
 import math
 from collections.abc import Callable, Mapping
 from dataclasses import dataclass
-from typing import Union
 
 from . import cautions
 from .errors import InputError, InputErrors
 from .regions import PRESETS
 from .units import format_value, parse
 
-Value = Union[float, str, None]
+Value = float | str | None
 
 
 @dataclass(frozen=True)

@@ -174,8 +174,27 @@ class Mode:
     """One linear piece: which diode pair conducts (sigma), on which chord,
     and which strings are on."""
 
-    __slots__ = ("A", "B", "Xr", "Xi", "c", "chord", "den_inv", "g_hi", "g_lo", "g_on", "i_lin", "ic_lin", "key", "l1", "l2",
-                 "on", "sigma", "strings_g", "vb_lin")  # fmt: skip
+    __slots__ = (
+        "A",
+        "B",
+        "Xi",
+        "Xr",
+        "c",
+        "chord",
+        "den_inv",
+        "g_hi",
+        "g_lo",
+        "g_on",
+        "i_lin",
+        "ic_lin",
+        "key",
+        "l1",
+        "l2",
+        "on",
+        "sigma",
+        "strings_g",
+        "vb_lin",
+    )  # fmt: skip
 
     def __init__(self, sol: Solver, sigma: int, chord: int, on: tuple[bool, ...]) -> None:
         c = sol.c
@@ -214,11 +233,11 @@ class Mode:
         self.B: Vec = (dcd[2], dcs[2])
         self.c: Vec = (dcd[3], dcs[3])
         a11, a12, a21, a22 = self.A
-        s = (a11 + a22) / 2
+        half_trace = (a11 + a22) / 2
         det = a11 * a22 - a12 * a21
-        disc = s * s - det
+        disc = half_trace * half_trace - det
         d = math.sqrt(disc) if disc > 0 else 0.0
-        self.l1, self.l2 = s + d, s - d
+        self.l1, self.l2 = half_trace + d, half_trace - d
         # sinusoidal particular solution X: (i w I - A) X = B (-i Vpk)
         w, vpk = sol.omega, sol.vpk
         m11, m12, m21, m22 = complex(-a11, w), complex(-a12, 0), complex(-a21, 0), complex(-a22, w)

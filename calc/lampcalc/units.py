@@ -117,7 +117,7 @@ def awg_number(text: str) -> int | None:
 def awg_diameter(n: int) -> float:
     """Diameter in metres of gauge n by the ASTM B258 definition:
     0.005 in x 92^((36 - n)/39)."""
-    return 0.005 * INCH * 92 ** ((36 - n) / 39)
+    return 0.005 * INCH * math.pow(92.0, (36 - n) / 39)
 
 
 def awg_area(n: int) -> float:

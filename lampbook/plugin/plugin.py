@@ -41,8 +41,7 @@ class LampbookPlugin(BasePlugin[LampbookConfig]):
             return markdown
         safety = None
         if self._safety:
-            depth = page.file.url.count("/") if not page.file.url.endswith("/") else page.file.url.count("/")
-            safety = "../" * depth + "safety/"
+            safety = "../" * page.file.url.count("/") + "safety/"
             if page.file.src_uri == "safety.md":
                 safety = None
         try:
