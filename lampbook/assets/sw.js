@@ -7,8 +7,9 @@ const scope = self.registration.scope;
 self.addEventListener("install", (event) => {
   event.waitUntil(
     caches.open(CACHE)
-      // bypass the HTTP cache so a new build never stores an old file under its new name
-      .then((c) => c.addAll(PRECACHE.files.map((f) => new Request(new URL(f, scope).href, { cache: "reload" }))))
+      // revalidate against the server so a new build never stores an old file under its new name
+      // (an unchanged file costs a 304, not a second download)
+      .then((c) => c.addAll(PRECACHE.files.map((f) => new Request(new URL(f, scope).href, { cache: "no-cache" }))))
       .then(() => self.skipWaiting()),
   );
 });

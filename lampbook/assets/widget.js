@@ -34,6 +34,7 @@ function startEngine() {
     if (engineState === "loading") {
       engineState = "failed";
       setStatus();
+      startOffline();
       console.error("lampbook: the engine did not start within " + site.timeout + " s (check that .wasm files are served as application/wasm)");
     }
   }, site.timeout * 1000);
@@ -42,12 +43,15 @@ function startEngine() {
     if (m.type === "ready") {
       clearTimeout(timer);
       engineState = "ready";
+      performance.mark("lb-engine-ready");
       setStatus();
+      startOffline();
       for (const f of document.querySelectorAll(".lb-calc[data-live]")) run(f);
     } else if (m.type === "failed") {
       clearTimeout(timer);
       engineState = "failed";
       setStatus();
+      startOffline();
       console.error("lampbook engine:", m.error);
     } else if (m.type === "result") {
       const cb = pending.get(m.id);
@@ -207,12 +211,13 @@ async function run(box) {
   render(box, decl, ans);
   box.querySelector(".lb-link").setAttribute("href", linkFor(box));
   box.dataset.computed = String(Number(box.dataset.computed || 0) + 1);
+  if (!performance.getEntriesByName("lb-first-live").length) performance.mark("lb-first-live");
   if (decl.plots.length) plot(box, decl, ans);
 }
 
 function init() {
   const boxes = document.querySelectorAll(".lb-calc:not([data-live])");
-  if (!boxes.length) { setStatus(); return; }
+  if (!boxes.length) { setStatus(); if (!worker) startOffline(); return; }
   startEngine();
   for (const box of boxes) {
     box.dataset.live = "1";
@@ -242,9 +247,14 @@ function init() {
   setStatus();
 }
 
-if ("serviceWorker" in navigator && location.protocol !== "file:") {
+// The offline cache is filled once the engine is up (or there is none on the page), so the
+// precache revalidates files the page has just loaded instead of downloading them twice.
+let swStarted = false;
+function startOffline() {
+  if (swStarted || !("serviceWorker" in navigator) || location.protocol === "file:") return;
+  swStarted = true;
   navigator.serviceWorker.register(new URL("sw.js", root).href, { scope: root.href }).then(
-    async (reg) => {
+    async () => {
       await navigator.serviceWorker.ready;
       offlineReady = true;
       setStatus();
@@ -253,6 +263,7 @@ if ("serviceWorker" in navigator && location.protocol !== "file:") {
     (e) => console.warn("lampbook: offline cache unavailable:", e),
   );
 }
+if ("serviceWorker" in navigator && navigator.serviceWorker.controller) startOffline();
 
 if (typeof document$ !== "undefined" && document$.subscribe) document$.subscribe(init);
 else if (document.readyState === "loading") document.addEventListener("DOMContentLoaded", init);

@@ -1,0 +1,189 @@
+"""lampbook benchmarks: writes bench/RESULTS.md (and bench/results.json).
+
+- per-call time of each closed-form calculator (CPython, this machine);
+- the steady-state solver on the ngspice comparison designs: time, steps,
+  Newton iterations, and ngspice on the same design in the same run (ratio);
+- the handbook in Debian's Chromium: first paint of the prerendered answer,
+  engine ready and first live result, cold and warm, with the byte-compiled
+  standard library and without (ratio); bytes sent on a first visit; build time.
+"""
+
+from __future__ import annotations
+
+import json
+import os
+import shutil
+import statistics
+import subprocess
+import sys
+import tempfile
+import time
+from pathlib import Path
+
+ROOT = Path(__file__).resolve().parent.parent
+sys.path.insert(0, str(ROOT / "tests"))
+
+from lampcalc.api import compute  # noqa: E402
+from lampcalc.calculators import CALCULATORS  # noqa: E402
+from lampcalc.steady import solve  # noqa: E402
+
+
+def per_call(fn, repeat: int = 7, number: int | None = None) -> float:  # type: ignore[no-untyped-def]
+    if number is None:
+        t0 = time.perf_counter()
+        fn()
+        once = time.perf_counter() - t0
+        number = max(1, int(0.2 / max(once, 1e-7)))
+    runs = []
+    for _ in range(repeat):
+        t0 = time.perf_counter()
+        for _ in range(number):
+            fn()
+        runs.append((time.perf_counter() - t0) / number)
+    return min(runs)
+
+
+def bench_calculators() -> list[dict[str, object]]:
+    out = []
+    for name in CALCULATORS:
+        t = per_call(lambda name=name: compute(name, {}))
+        out.append({"calculator": name, "per_call_us": t * 1e6})
+    return out
+
+
+def bench_solver() -> list[dict[str, object]]:
+    from spice import run
+    from test_spice import DESIGNS
+
+    out = []
+    for name, c in sorted(DESIGNS.items()):
+        st = solve(c)
+        t = per_call(lambda c=c: solve(c), repeat=5)
+        periods = 120 if c.smoothing >= 1e-3 or not c.strings else 60
+        ref = run(c, periods=periods)
+        out.append({"design": name, "solve_ms": t * 1e3, "steps": st.steps, "newton_iterations": st.iterations,
+                    "ngspice_s": ref.seconds, "ngspice_periods": periods, "ratio": ref.seconds / t})  # fmt: skip
+    return out
+
+
+class Counting:
+    def __init__(self, directory: Path) -> None:
+        import functools
+        import http.server
+        import threading
+
+        from sites import _Quiet
+
+        outer = self
+        self.bytes = 0
+
+        class H(_Quiet):
+            def copyfile(self, source, outputfile):  # type: ignore[no-untyped-def]
+                data = source.read()
+                outer.bytes += len(data)
+                outputfile.write(data)
+
+        self.httpd = http.server.ThreadingHTTPServer(("127.0.0.1", 0), functools.partial(H, directory=str(directory)))
+        threading.Thread(target=self.httpd.serve_forever, daemon=True).start()
+        self.url = f"http://127.0.0.1:{self.httpd.server_address[1]}/"
+
+    def close(self) -> None:
+        self.httpd.shutdown()
+
+
+def build_site(folder: Path, compile_stdlib: bool) -> float:
+    from sites import build
+
+    shutil.copytree(ROOT / "docs", folder / "docs")
+    y = (ROOT / "mkdocs.yml").read_text().replace(
+        "  - lampbook\n",
+        f"  - lampbook:\n      runtime: {ROOT / 'node_modules' / 'pyodide'}\n      cache_dir: {ROOT / '.cache' / 'lampbook'}\n"
+        f"      compile_stdlib: {'true' if compile_stdlib else 'false'}\n",
+    )
+    (folder / "mkdocs.yml").write_text(y)
+    t0 = time.perf_counter()
+    r = build(folder)
+    if r.returncode:
+        raise SystemExit(r.stderr)
+    return time.perf_counter() - t0
+
+
+def bench_browser() -> dict[str, object]:
+    from playwright.sync_api import sync_playwright
+
+    from test_browser import ARGS, CHROMIUM
+
+    res: dict[str, object] = {}
+    with tempfile.TemporaryDirectory() as d, sync_playwright() as p:
+        browser = p.chromium.launch(executable_path=CHROMIUM, args=ARGS)
+        for compiled in (True, False):
+            folder = Path(d) / ("compiled" if compiled else "source")
+            build_s = build_site(folder, compiled)
+            srv = Counting(folder / "site")
+            rows = {"cold": [], "warm": []}  # type: dict[str, list[dict[str, float]]]
+            first_bytes = []
+            for _ in range(3):
+                ctx = browser.new_context()
+                page = ctx.new_page()
+                for visit in ("cold", "warm"):
+                    before = srv.bytes
+                    page.goto(srv.url + "calculators/dropper/")
+                    page.wait_for_selector(".lb-engine[data-state^=ready]", timeout=120000)
+                    page.fill("#lb-dropper-1-capacitance", "2.2 uF")
+                    page.wait_for_function("performance.getEntriesByName('lb-first-live').length > 0", timeout=60000)
+                    m = page.evaluate("""() => ({
+                        fcp: (performance.getEntriesByName('first-contentful-paint')[0] || {}).startTime,
+                        ready: performance.getEntriesByName('lb-engine-ready')[0].startTime,
+                        live: performance.getEntriesByName('lb-first-live')[0].startTime })""")
+                    rows[visit].append(m)
+                    if visit == "cold":
+                        # let the service worker finish its precache, then count the whole first visit
+                        page.wait_for_function("navigator.serviceWorker.controller !== null", timeout=120000)
+                        time.sleep(1.0)
+                        first_bytes.append(srv.bytes - before)
+                ctx.close()
+            srv.close()
+            key = "compiled_stdlib" if compiled else "source_stdlib"
+            res[key] = {
+                visit: {k: statistics.median(r[k] for r in rows[visit]) for k in ("fcp", "ready", "live")} for visit in rows
+            } | {"first_visit_bytes": statistics.median(first_bytes), "build_s": build_s,
+                 "site_bytes": sum(f.stat().st_size for f in (folder / "site").rglob("*") if f.is_file())}  # fmt: skip
+        browser.close()
+    c, s = res["compiled_stdlib"], res["source_stdlib"]  # type: ignore[index]
+    res["ready_ratio_source_over_compiled"] = {v: s[v]["ready"] / c[v]["ready"] for v in ("cold", "warm")}  # type: ignore[index]
+    return res
+
+
+def main() -> None:
+    t0 = time.time()
+    calcs = bench_calculators()
+    solver = bench_solver()
+    browser = bench_browser()
+    data = {"machine": {"python": sys.version.split()[0], "cpus": os.cpu_count()}, "calculators": calcs, "solver": solver, "browser": browser}
+    (ROOT / "bench" / "results.json").write_text(json.dumps(data, indent=1, sort_keys=True))
+    lines = ["# Benchmark results", "", f"Written by `make bench` ({time.strftime('%Y-%m-%d')}, {time.time() - t0:.0f} s run, "
+             f"Python {data['machine']['python']}, {data['machine']['cpus']} cores).", "",
+             "## Closed-form calculators (CPython, default inputs)", "", "| calculator | per call |", "|---|---|"]  # fmt: skip
+    lines += [f"| {c['calculator']} | {c['per_call_us']:.0f} µs |" for c in calcs]
+    lines += ["", "## Steady-state solver beside ngspice (same circuit, same run)", "",
+              "| design | solve | steps | Newton iterations | ngspice | periods simulated | ngspice / lampbook |", "|---|---|---|---|---|---|---|"]  # fmt: skip
+    lines += [f"| {s['design']} | {s['solve_ms']:.1f} ms | {s['steps']} | {s['newton_iterations']} | {s['ngspice_s']:.2f} s | "
+              f"{s['ngspice_periods']} | {s['ratio']:.0f}× |" for s in solver]  # fmt: skip
+    lines += ["", "## Handbook in Chromium (dropper page, medians of 3, ms from navigation start)", "",
+              "| standard library | visit | first paint (prerendered answer) | engine ready | first live result |", "|---|---|---|---|---|"]  # fmt: skip
+    for key in ("compiled_stdlib", "source_stdlib"):
+        b = browser[key]  # type: ignore[index]
+        for v in ("cold", "warm"):
+            lines.append(f"| {key.split('_')[0]} | {v} | {b[v]['fcp']:.0f} | {b[v]['ready']:.0f} | {b[v]['live']:.0f} |")
+    r = browser["ready_ratio_source_over_compiled"]  # type: ignore[index]
+    c = browser["compiled_stdlib"]  # type: ignore[index]
+    lines += ["", f"Engine-ready time, source stdlib / compiled stdlib: cold {r['cold']:.2f}×, warm {r['warm']:.2f}×.", "",
+              f"First visit (page plus the service worker's precache of the whole site): {c['first_visit_bytes'] / 1e6:.1f} MB sent (the 9.6 MB wasm arrives twice: the engine streams it past the HTTP cache, so the precache cannot revalidate it); "
+              f"site size {c['site_bytes'] / 1e6:.1f} MB. Build time {c['build_s']:.1f} s (compiled stdlib from the cache), "
+              f"{browser['source_stdlib']['build_s']:.1f} s without compiling."]  # type: ignore[index]  # fmt: skip
+    (ROOT / "bench" / "RESULTS.md").write_text("\n".join(lines) + "\n")
+    print("\n".join(lines))
+
+
+if __name__ == "__main__":
+    main()
