@@ -129,14 +129,49 @@ def render(block: Block, safety_url: str | None) -> str:
     )
 
 
+def render_table(index: int, body: str) -> str:
+    from lampcalc.tables import TABLES
+
+    opts = {}
+    for raw in body.splitlines():
+        if raw.strip() and ":" in raw:
+            k, v = (p.strip() for p in raw.split(":", 1))
+            opts[k] = v
+    name = opts.pop("table", None)
+    if name not in TABLES:
+        raise BlockError(index, "table", f"got {name!r}; expected one of " + ", ".join(TABLES))
+    if opts:
+        raise BlockError(index, next(iter(opts)), "tables take only 'table'")
+    t = TABLES[name]()
+    head = "".join(f"<th>{_esc(h)}</th>" for h in t.headers)
+    body_html = "".join("<tr>" + "".join(f"<td>{_esc(c)}</td>" for c in r) + "</tr>" for r in t.rows)
+    src = "".join(f"<li>{_esc(x)}</li>" for x in t.sources)
+    return (f'<div class="lb-reftable" data-table="{_esc(name)}"><p class="lb-tabletitle"><strong>{_esc(t.title)}</strong></p>'
+            f'<div class="lb-scroll"><table class="lb-table"><thead><tr>{head}</tr></thead><tbody>{body_html}</tbody></table></div>'
+            f'<ul class="lb-sources">{src}</ul></div>')  # fmt: skip
+
+
+OPEN_DESIGN = (
+    '<div class="lb-open"><p><label>Open a design file (.toml) from this device: '
+    '<input type="file" class="lb-open-file" accept=".toml,text/plain"></label></p>'
+    '<p class="lb-small">The file is read here in the page and stays on this device; nothing is uploaded.</p>'
+    '<ul class="lb-open-err lb-warn"></ul><div class="lb-open-out"></div></div>'
+)
+
+
 def replace_blocks(markdown: str, fence: str, safety_url: str | None) -> tuple[str, int]:
     count = 0
 
     def sub(m: re.Match[str]) -> str:
         nonlocal count
-        if m.group("word") != fence:
+        word = m.group("word")
+        if word not in (fence, fence + "-table", fence + "-open"):
             return m.group(0)
         count += 1
+        if word == fence + "-table":
+            return "\n" + render_table(count, m.group("body")) + "\n"
+        if word == fence + "-open":
+            return "\n" + OPEN_DESIGN + "\n"
         return "\n" + render(parse_block(count, m.group("body")), safety_url) + "\n"
 
     return FENCE.sub(sub, markdown), count

@@ -39,7 +39,49 @@ def run_check(args: argparse.Namespace) -> int:
         from .designtext import check_report
 
         print(check_report(ans))
+    return 1 if ans["failed"] else 0
+
+
+def run_sheet(args: argparse.Namespace) -> int:
+    from .sheets import SheetError, sheet_markdown
+
+    text = _read(args.design)
+    if text is None:
+        return 2
+    try:
+        page = sheet_markdown(text, args.design)
+    except SheetError as e:
+        print(f"lampbook sheet {e}", file=sys.stderr)
+        return 2
+    if args.output in (None, "-"):
+        sys.stdout.write(page)
+    else:
+        try:
+            with open(args.output, "w", encoding="utf-8") as fh:
+                fh.write(page)
+        except OSError as e:
+            print(f"lampbook: -o: cannot write '{args.output}': {e.strerror}", file=sys.stderr)
+            return 2
     return 0
+
+
+def run_new(args: argparse.Namespace) -> int:
+    from .scaffold import ScaffoldError, scaffold
+
+    try:
+        made = scaffold(args.folder, args.name)
+    except ScaffoldError as e:
+        print(f"lampbook new: {e}", file=sys.stderr)
+        return 2
+    print(f"Started a handbook in {made}:")
+    print(f"  cd {made} && npm install pyodide@{_pyodide()} && mkdocs build    # then serve the site/ folder")
+    return 0
+
+
+def _pyodide() -> str:
+    from .bundle import PYODIDE_VERSION
+
+    return PYODIDE_VERSION
 
 
 def add(sub: Any) -> None:
@@ -49,3 +91,12 @@ def add(sub: Any) -> None:
     p.add_argument("--json", action="store_true", help="print one JSON object")
     p.add_argument("--waveforms", action="store_true", help="include the nominal waveforms in the JSON")
     p.set_defaults(_run=run_check)
+    p = sub.add_parser("sheet", help="write the build sheet of a fixture design as a Markdown page",
+                       description="Write the build sheet of a fixture design (operating table, checks, bill of materials, wiring, schematic).")  # fmt: skip
+    p.add_argument("design", metavar="DESIGN.toml")
+    p.add_argument("-o", "--output", metavar="PAGE.md", help="where to write the page (default: standard output)")
+    p.set_defaults(_run=run_sheet)
+    p = sub.add_parser("new", help="start a handbook of your own", description="Scaffold a handbook: mkdocs.yml with the plugin, a first page, a design folder.")
+    p.add_argument("folder", metavar="FOLDER")
+    p.add_argument("--name", default="Shop handbook", help="the handbook's title")
+    p.set_defaults(_run=run_new)

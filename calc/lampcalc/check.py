@@ -1,4 +1,5 @@
-"""Solve a design at nominal mains and at both ends of its tolerance."""
+"""Solve a design at nominal supply and at both ends of its tolerance, and
+run the design review's checks."""
 
 from __future__ import annotations
 
@@ -6,6 +7,7 @@ from typing import Any
 
 from . import cautions
 from .design import Design
+from .review import Context, prepare, run_checks
 from .steady import SteadyState, open_load, solve, switch_on
 
 
@@ -43,23 +45,63 @@ def operating_point(st: SteadyState) -> dict[str, Any]:
     }
 
 
+def _cv_point(d: Design, supply: float, corner: float, temperature: float) -> dict[str, Any]:
+    mod = d.module
+    arr = d.values["array"]
+    s, p, rb = int(arr["series"]), int(arr["parallel"]), float(arr["ballast"])
+    knee = s * mod.v0_at(temperature, corner)
+    r = s * mod.r_dynamic + rb
+    i = max(supply - knee, 0.0) / r if r > 0 else 0.0
+    led = p * i * (knee + s * mod.r_dynamic * i)
+    return {
+        "supply_voltage_V": supply, "string_current_avg_A": i, "led_current_avg_A": p * i, "led_power_W": led,
+        "ballast_power_W": i * i * rb, "input_power_W": supply * p * i, "efficiency": led / (supply * p * i) if i > 0 else 0.0,
+        "headroom": (supply - knee - s * mod.r_dynamic * i) / supply,
+    }  # fmt: skip
+
+
 def check(design: Design, waveforms: bool = False) -> dict[str, Any]:
     vn, vlo, vhi = design.mains_band()
-    out: dict[str, Any] = {"name": design.name, "revision": design.revision, "date": design.date}
-    states = {}
-    for label, v in (("nominal", vn), ("low", vlo), ("high", vhi)):
-        st = solve(design.circuit(mains_voltage=v))
-        states[label] = st
-        out[label] = operating_point(st)
-        out[label]["mains_voltage_V"] = v
-    hi = design.circuit(mains_voltage=vhi)
-    peak, energy = switch_on(hi)
-    ol_v, ol_tau = open_load(hi)
-    out["switch_on_peak_A"] = peak
-    out["switch_on_energy_J"] = energy
-    out["open_load_bus_V"] = ol_v
-    out["open_load_time_constant_s"] = ol_tau
-    out["cautions"] = list(cautions.MAINS)
-    if waveforms:
-        out["waveform"] = {k: list(v) for k, v in states["nominal"].waveform.items()}
+    out: dict[str, Any] = {"name": design.name, "revision": design.revision, "date": design.date,
+                           "description": design.description, "kind": "cv" if design.is_cv else "mains"}  # fmt: skip
+    if design.is_cv:
+        t = float(design.values["module"]["temperature"])
+        for label, v in (("nominal", vn), ("low", vlo), ("high", vhi)):
+            out[label] = _cv_point(design, v, 0, t)
+        ctx = Context(design)
+        hot = _cv_point(design, vhi, -1, ctx.t_hot)
+        cold = _cv_point(design, vlo, +1, ctx.t_cold)
+        ctx.cv_currents = {"max": hot["string_current_avg_A"], "min": cold["string_current_avg_A"],
+                           "total_max": hot["led_current_avg_A"], "headroom": out["nominal"]["headroom"]}  # fmt: skip
+        out["worst_high"], out["worst_low"] = hot, cold
+        out["cautions"] = list(cautions.LOW_VOLTAGE)
+    else:
+        states = {}
+        for label, v in (("nominal", vn), ("low", vlo), ("high", vhi)):
+            st = solve(design.circuit(mains_voltage=v))
+            states[label] = st
+            out[label] = operating_point(st)
+            out[label]["mains_voltage_V"] = v
+        ctx = prepare(design, states["nominal"], states["low"], states["high"])
+        assert ctx.worst_high is not None
+        out["worst_high"] = operating_point(ctx.worst_high)
+        hi = design.circuit(mains_voltage=vhi)
+        peak, energy = switch_on(hi)
+        ol_v, ol_tau = open_load(hi)
+        out["switch_on_peak_A"] = peak
+        out["switch_on_energy_J"] = energy
+        out["open_load_bus_V"] = ol_v
+        out["open_load_time_constant_s"] = ol_tau
+        steps = design.get("dropper", "steps")
+        if steps:
+            out["steps"] = [
+                {"capacitance_F": c, "led_current_avg_A": solve(design.circuit(dropper_scale=c / float(design.get("dropper", "capacitance")))).led_current.avg}
+                for c in steps
+            ]  # fmt: skip
+        out["cautions"] = list(cautions.MAINS)
+        if waveforms:
+            out["waveform"] = {k: list(v) for k, v in states["nominal"].waveform.items()}
+    out["checks"] = [c.as_dict() for c in run_checks(ctx)]
+    out["failed"] = sum(1 for c in out["checks"] if c["status"] == "fail")
+    out["warned"] = sum(1 for c in out["checks"] if c["status"] == "warn")
     return out

@@ -26,25 +26,42 @@ SCHEMA: dict[str, Spec] = {
     "": {"name": ("text", True, None), "revision": ("text", False, "1"), "date": ("text", False, ""),
          "description": ("text", False, ""), "ambient": ("temperature", False, 25.0)},
     "mains": {"voltage": ("voltage", True, None), "frequency": ("frequency", True, None),
-              "tolerance": ("ratio", False, 0.10), "tolerance_minus": ("ratio", False, None)},
+              "tolerance": ("ratio", False, 0.10), "tolerance_minus": ("ratio", False, None), "region": ("text", False, None)},
+    "supply": {"kind": ("text", True, None), "voltage": ("voltage", True, None), "tolerance": ("ratio", False, 0.05),
+               "current_rating": ("current", False, None)},
     "module": {"v0": ("voltage", False, None), "r_dynamic": ("resistance", False, None), "points": ("points", False, None),
                "current_max": ("current", True, None), "vf_tempco": ("tempco", False, -0.003),
                "vf_spread": ("ratio", False, 0.0), "temperature": ("temperature", False, 25.0), "name": ("text", False, "")},
     "array": {"series": ("count", True, None), "parallel": ("count", False, 1.0), "ballast": ("resistance", False, 0.0),
-              "offsets": ("voltages", False, None)},
+              "offsets": ("voltages", False, None), "ballast_rating": ("power", False, None)},
     "dropper": {"capacitance": ("capacitance", False, None), "tolerance": ("ratio", False, 0.10),
-                "series_resistance": ("resistance", False, 0.0), "bleeder": ("resistance", False, None)},
+                "series_resistance": ("resistance", False, 0.0), "bleeder": ("resistance", False, None),
+                "ac_rating": ("voltage", False, None), "class": ("text", False, None), "steps": ("capacitances", False, None),
+                "resistor_rating": ("power", False, None)},
     "bridge": {"model": ("text", False, "line"), "drop": ("voltage", False, 0.9), "resistance": ("resistance", False, 0.05),
                "saturation_current": ("current", False, 1e-9), "emission_coefficient": ("count", False, 1.8),
-               "temperature": ("temperature", False, 25.0)},
+               "temperature": ("temperature", False, 25.0), "vrrm": ("voltage", False, None),
+               "average_rating": ("current", False, None), "surge_rating": ("current", False, None),
+               "tj_max": ("temperature", False, 150.0), "theta_jc": ("thermal_resistance", False, None),
+               "theta_cs": ("thermal_resistance", False, 0.5), "theta_ja": ("thermal_resistance", False, None)},
     "smoothing": {"capacitance": ("capacitance", True, None), "esr": ("resistance", False, 0.0),
-                  "bleeder": ("resistance", False, None), "voltage_rating": ("voltage", False, None)},
+                  "bleeder": ("resistance", False, None), "voltage_rating": ("voltage", False, None),
+                  "ripple_rating": ("current", False, None), "rated_life": ("time", False, None),
+                  "rated_temperature": ("temperature", False, 105.0), "clamp": ("voltage", False, None)},
+    "fuse": {"rating": ("current", True, None), "kind": ("text", False, "time-lag"), "standard": ("text", False, "IEC 60127")},
+    "switch": {"rating": ("current", True, None), "surge_rating": ("current", False, None)},
+    "review": {"discharge_voltage": ("voltage", False, 34.0), "discharge_time": ("time", False, 1.0),
+               "temperature_cold": ("temperature", False, 0.0), "temperature_hot": ("temperature", False, None),
+               "life_target": ("time", False, 20000 * 3600.0), "drop_limit": ("ratio", False, 0.03),
+               "seed": ("count", False, 1.0), "samples": ("count", False, 1000.0)},
 }  # fmt: skip
-REQUIRED_TABLES = ("mains", "module", "array", "smoothing")
+WIRE_SPEC: Spec = {"name": ("text", True, None), "size": ("area", True, None), "length": ("length", True, None),
+                   "carries": ("text", False, "line"), "table": ("text", False, None), "temperature": ("temperature", False, 40.0)}  # fmt: skip
+WIRE_CARRIES = ("line", "bus", "string", "supply")
+MAINS_TABLES = ("mains", "module", "array", "smoothing")
+CV_TABLES = ("supply", "module", "array")
+OPTIONAL_TABLES = ("fuse", "switch")
 
-#: Extra tables a later layer (the design review) may declare; they are
-#: checked by their owner and passed through untouched here.
-EXTENSIONS: dict[str, Spec] = {}
 
 
 @dataclass(frozen=True)
@@ -69,13 +86,18 @@ class Design:
         return LedModule(v0=m["v0"], r_dynamic=m["r_dynamic"], **kw)
 
     @property
+    def is_cv(self) -> bool:
+        return "supply" in self.values
+
+    @property
     def has_dropper(self) -> bool:
         return self.get("dropper", "capacitance") is not None
 
     def mains_band(self) -> tuple[float, float, float]:
-        v = self.values["mains"]["voltage"]
-        plus = self.values["mains"]["tolerance"]
-        minus = self.values["mains"]["tolerance_minus"]
+        t = self.values["supply"] if self.is_cv else self.values["mains"]
+        v = t["voltage"]
+        plus = t["tolerance"]
+        minus = t.get("tolerance_minus")
         minus = plus if minus is None else minus
         return v, v * (1 - minus), v * (1 + plus)
 
@@ -83,7 +105,7 @@ class Design:
         self,
         mains_voltage: float | None = None,
         dropper_scale: float = 1.0,
-        vf_corner: int = 0,
+        vf_corner: float = 0,
         temperature: float | None = None,
         frequency: float | None = None,
     ) -> Circuit:
@@ -125,6 +147,26 @@ class Design:
         )
 
 
+def _table(table: str, spec: Spec, given: Mapping[str, object], errors: list[InputError]) -> dict[str, Any]:
+    out: dict[str, Any] = {}
+    for key in given:
+        if key not in spec:
+            label = key if table == "" else f"{table}.{key}"
+            errors.append(InputError(label, given[key], f"one of the keys of [{table or 'top level'}]: " + ", ".join(spec)))
+    for key, (dim, required, default) in spec.items():
+        label = key if table == "" else f"{table}.{key}"
+        if key in given:
+            try:
+                out[key] = _value(dim, given[key], label)
+            except InputError as e:
+                errors.append(e)
+        elif required:
+            errors.append(InputError(label, "missing", f"a value for {label}"))
+        else:
+            out[key] = default
+    return out
+
+
 def _value(dim: str, raw: object, key: str) -> object:
     if dim == "text":
         if not isinstance(raw, str):
@@ -134,10 +176,11 @@ def _value(dim: str, raw: object, key: str) -> object:
         if not (isinstance(raw, list) and len(raw) == 2 and all(isinstance(p, list) and len(p) == 2 for p in raw)):
             raise InputError(key, raw, 'two [current, voltage] pairs such as [["20 mA", "2.9 V"], ["60 mA", "3.1 V"]]')
         return [(parse(p[0], "current", key), parse(p[1], "voltage", key)) for p in raw]
-    if dim == "voltages":
-        if not isinstance(raw, list):
-            raise InputError(key, raw, 'a list of voltages such as ["0 V", "0.5 V"]')
-        return [parse(v, "voltage", key) for v in raw]
+    if dim in ("voltages", "capacitances"):
+        one = dim[:-1]
+        if not isinstance(raw, list) or not raw:
+            raise InputError(key, raw, f"a list of {dim} such as " + ('["0 V", "0.5 V"]' if one == "voltage" else '["1 uF", "1.47 uF"]'))
+        return [parse(v, one, key) for v in raw]
     x = parse(raw, dim, key)
     if not math.isfinite(x):
         raise InputError(key, raw, "a finite value")
@@ -155,44 +198,43 @@ def parse_design(text: str) -> Design:
         raise InputError("design", "TOML", f"valid TOML ({e})") from None
     errors: list[InputError] = []
     values: dict[str, dict[str, Any]] = {}
-    schema = {**SCHEMA, **EXTENSIONS}
-    top = {k: v for k, v in doc.items() if not isinstance(v, dict)}
+    schema = SCHEMA
+    top = {k: v for k, v in doc.items() if not isinstance(v, dict) and k != "wire"}
     tables = {k: v for k, v in doc.items() if isinstance(v, dict)}
+    cv = "supply" in tables
+    required = CV_TABLES if cv else MAINS_TABLES
     for k in tables:
         if k not in schema or k == "":
-            errors.append(InputError(f"[{k}]", "table", "one of the tables " + ", ".join(f"[{t}]" for t in schema if t)))
-    for t in REQUIRED_TABLES:
+            errors.append(InputError(f"[{k}]", "table", "one of the tables " + ", ".join(f"[{t}]" for t in schema if t) + ", [[wire]]"))
+        elif cv and k in ("mains", "dropper", "bridge", "smoothing"):
+            errors.append(InputError(f"[{k}]", "table", "no mains tables in a [supply] design (a constant-voltage supply feeds the array)"))
+    for t in required:
         if t not in tables:
             errors.append(InputError(f"[{t}]", "missing", f"a [{t}] table"))
     for table, spec in schema.items():
         given = top if table == "" else tables.get(table)
         if given is None:
-            if table in EXTENSIONS or table in ("dropper", "bridge"):
+            if table in ("review",) or (not cv and table in ("dropper", "bridge")):
                 given = {}
             else:
                 continue
-        out: dict[str, Any] = {}
-        for key in given:
-            if key not in spec:
-                label = key if table == "" else f"{table}.{key}"
-                errors.append(InputError(label, given[key], f"one of the keys of [{table or 'top level'}]: " + ", ".join(spec)))
-        for key, (dim, required, default) in spec.items():
-            label = key if table == "" else f"{table}.{key}"
-            if key in given:
-                try:
-                    out[key] = _value(dim, given[key], label)
-                except InputError as e:
-                    errors.append(e)
-            elif required:
-                errors.append(InputError(label, "missing", f"a value for {label}"))
-            else:
-                out[key] = default
-        values[table] = out
+        values[table] = _table(table, spec, given, errors)
+    wires = doc.get("wire", [])
+    if not isinstance(wires, list) or not all(isinstance(w, dict) for w in wires):
+        errors.append(InputError("[[wire]]", wires, "wire runs as [[wire]] tables"))
+        wires = []
+    values["wire"] = [_table(f"wire[{k}]", WIRE_SPEC, w, errors) for k, w in enumerate(wires)]  # type: ignore[assignment]
+    for k, w in enumerate(values["wire"]):  # type: ignore[arg-type]
+        if w.get("carries") not in WIRE_CARRIES:
+            errors.append(InputError(f"wire[{k}].carries", w.get("carries"), "one of " + ", ".join(WIRE_CARRIES)))
+    sup = values.get("supply")
+    if sup and sup.get("kind") != "cv":
+        errors.append(InputError("supply.kind", sup.get("kind"), "'cv' (a constant-voltage supply with ballast resistors)"))
     m = values.get("module", {})
     if m and not m.get("points") and (m.get("v0") is None or m.get("r_dynamic") is None):
         errors.append(InputError("module.v0", "missing", "module.v0 and module.r_dynamic, or module.points"))
     br = values.get("bridge", {})
-    if br.get("model") not in ("line", "exponential"):
+    if not cv and br.get("model") not in ("line", "exponential"):
         errors.append(InputError("bridge.model", br.get("model"), "'line' or 'exponential'"))
     arr = values.get("array", {})
     offs = arr.get("offsets")
@@ -205,7 +247,8 @@ def parse_design(text: str) -> Design:
                {**values, "": top_v})  # fmt: skip
     try:
         d.module  # noqa: B018 - validates the module line
-        d.circuit().validate()
+        if not d.is_cv:
+            d.circuit().validate()
     except InputError as e:
         raise InputError(_design_key(e.field), e.value, e.expected) from None
     return d

@@ -5,6 +5,8 @@ from __future__ import annotations
 from typing import Any
 
 from .check import check
+from .sheet import render
+from .tolerance import study
 from .design import parse_design
 from .errors import CalcError, InputError, InputErrors, NoSolutionError
 
@@ -14,7 +16,15 @@ def handle(kind: str, req: dict[str, Any]) -> dict[str, Any]:
         if kind == "check":
             d = parse_design(str(req.get("toml", "")))
             return {"ok": True, **check(d, waveforms=bool(req.get("waveforms")))}
-        raise InputError("kind", kind, "one of describe, compute, check")
+        if kind == "study":
+            d = parse_design(str(req.get("toml", "")))
+            return {"ok": True, **study(d, samples=req.get("samples"), seed=req.get("seed"))}
+        if kind == "sheet":
+            d = parse_design(str(req.get("toml", "")))
+            ans = check(d)
+            st = study(d)
+            return {"ok": True, "name": d.name, "html": render(d, ans, st), "failed": ans["failed"]}
+        raise InputError("kind", kind, "one of describe, compute, check, study, sheet")
     except InputErrors as e:
         return {"ok": False, "errors": [x.as_dict() for x in e.errors]}
     except (InputError, NoSolutionError) as e:

@@ -59,20 +59,20 @@ class LedModule:
             raise InputError("points", ((i1, v1), (i2, v2)), "points whose straight line crosses zero current above 0 V")
         return cls(v0=v0, r_dynamic=rd, **kw)
 
-    def v0_at(self, temperature: float = REFERENCE_TEMPERATURE, corner: int = 0) -> float:
+    def v0_at(self, temperature: float = REFERENCE_TEMPERATURE, corner: float = 0) -> float:
         """Knee voltage at a temperature; ``corner`` -1/0/+1 picks the low,
-        nominal or high end of the tolerance band."""
+        nominal or high end of the tolerance band (values between move along it)."""
         base = self.v0 + self.vf_tempco * (temperature - REFERENCE_TEMPERATURE)
         if corner and self.vf_spread:
             ref = self.current_ref if self.current_ref is not None else 0.0
             base += corner * self.vf_spread * (self.v0 + self.r_dynamic * ref)
         return base
 
-    def voltage(self, current: float, temperature: float = REFERENCE_TEMPERATURE, corner: int = 0) -> float:
+    def voltage(self, current: float, temperature: float = REFERENCE_TEMPERATURE, corner: float = 0) -> float:
         """Forward voltage at a current (the knee voltage at zero current)."""
         return self.v0_at(temperature, corner) + self.r_dynamic * max(current, 0.0)
 
-    def current(self, voltage: float, temperature: float = REFERENCE_TEMPERATURE, corner: int = 0) -> float:
+    def current(self, voltage: float, temperature: float = REFERENCE_TEMPERATURE, corner: float = 0) -> float:
         """Current at a forward voltage (0 below the knee)."""
         over = voltage - self.v0_at(temperature, corner)
         if over <= 0:

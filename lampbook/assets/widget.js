@@ -215,9 +215,44 @@ async function run(box) {
   if (decl.plots.length) plot(box, decl, ans);
 }
 
+// --- a design file opened from the device: read here, solved in the worker, never uploaded ---------
+function initOpen() {
+  for (const box of document.querySelectorAll(".lb-open:not([data-live])")) {
+    box.dataset.live = "1";
+    startEngine();
+    const input = box.querySelector(".lb-open-file");
+    input.addEventListener("change", async () => {
+      const file = input.files && input.files[0];
+      if (!file) return;
+      const errs = box.querySelector(".lb-open-err");
+      const out = box.querySelector(".lb-open-out");
+      errs.innerHTML = "";
+      if (file.size > 200000) { errs.innerHTML = "<li>file: over 200 kB; expected a design file (.toml)</li>"; return; }
+      const text = await file.text();
+      out.innerHTML = "<p>Solving…</p>";
+      await new Promise((resolve) => {
+        const wait = () => (engineState === "ready" ? resolve() : engineState === "failed" ? resolve() : setTimeout(wait, 100));
+        wait();
+      });
+      if (engineState !== "ready") { out.innerHTML = ""; errs.innerHTML = "<li>the engine could not start in this browser</li>"; return; }
+      const ans = await query({ kind: "sheet", toml: text });
+      if (!ans.ok) {
+        out.innerHTML = "";
+        errs.innerHTML = ans.errors.map((e) => `<li>${esc(e.message)}</li>`).join("");
+        return;
+      }
+      // the sheet is built by the core, which escapes everything the file says
+      out.innerHTML = `<h2>${esc(ans.name)}</h2>` + ans.html;
+      box.dataset.computed = String(Number(box.dataset.computed || 0) + 1);
+    });
+  }
+}
+
 function init() {
+  initOpen();
   const boxes = document.querySelectorAll(".lb-calc:not([data-live])");
   if (!boxes.length) { setStatus(); if (!worker) startOffline(); return; }
+  setStatus();
   startEngine();
   for (const box of boxes) {
     box.dataset.live = "1";

@@ -11,6 +11,9 @@ class LampbookConfig(base.Config):
     fence = c.Type(str, default="lampbook")
     """Info word of the fenced blocks that become calculators."""
 
+    designs = c.Optional(c.Type(str))
+    """Folder (inside docs_dir) whose fixture design files (*.toml) each become a build-sheet page next to them."""
+
     runtime = c.Optional(c.Dir(exists=True))
     """Folder holding the Pyodide npm package; default: node_modules/pyodide next to mkdocs.yml."""
 

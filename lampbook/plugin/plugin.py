@@ -34,6 +34,18 @@ class LampbookPlugin(BasePlugin[LampbookConfig]):
 
     def on_files(self, files: Any, config: Any) -> Any:
         self._safety = "safety.md" if files.get_file_from_path("safety.md") else None
+        if self.config.enabled and self.config.designs:
+            from mkdocs.structure.files import File
+
+            from ..sheets import SheetError, sheet_pages
+
+            try:
+                pages = sheet_pages(Path(config.docs_dir), self.config.designs)
+            except SheetError as e:
+                raise PluginError(f"lampbook: {e}") from None
+            for src_uri, text in pages:
+                if files.get_file_from_path(src_uri) is None:
+                    files.append(File.generated(config, src_uri, content=text))
         return files
 
     def on_page_markdown(self, markdown: str, page: Any, config: Any, files: Any) -> str:
