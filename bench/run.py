@@ -14,7 +14,6 @@ import json
 import os
 import shutil
 import statistics
-import subprocess
 import sys
 import tempfile
 import time
@@ -110,7 +109,6 @@ def build_site(folder: Path, compile_stdlib: bool) -> float:
 
 def bench_browser() -> dict[str, object]:
     from playwright.sync_api import sync_playwright
-
     from test_browser import ARGS, CHROMIUM
 
     res: dict[str, object] = {}

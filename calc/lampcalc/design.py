@@ -71,6 +71,7 @@ class Design:
     date: str
     description: str
     values: Mapping[str, Mapping[str, Any]]  # parsed, SI
+    wires: tuple[Mapping[str, Any], ...] = ()
 
     def get(self, table: str, key: str) -> Any:
         return self.values.get(table, {}).get(key)
@@ -223,10 +224,10 @@ def parse_design(text: str) -> Design:
     if not isinstance(wires, list) or not all(isinstance(w, dict) for w in wires):
         errors.append(InputError("[[wire]]", wires, "wire runs as [[wire]] tables"))
         wires = []
-    values["wire"] = [_table(f"wire[{k}]", WIRE_SPEC, w, errors) for k, w in enumerate(wires)]  # type: ignore[assignment]
-    for k, w in enumerate(values["wire"]):  # type: ignore[arg-type]
-        if w.get("carries") not in WIRE_CARRIES:
-            errors.append(InputError(f"wire[{k}].carries", w.get("carries"), "one of " + ", ".join(WIRE_CARRIES)))
+    runs = [_table(f"wire[{n}]", WIRE_SPEC, w, errors) for n, w in enumerate(wires)]
+    for n, run in enumerate(runs):
+        if run.get("carries") not in WIRE_CARRIES:
+            errors.append(InputError(f"wire[{n}].carries", run.get("carries"), "one of " + ", ".join(WIRE_CARRIES)))
     sup = values.get("supply")
     if sup and sup.get("kind") != "cv":
         errors.append(InputError("supply.kind", sup.get("kind"), "'cv' (a constant-voltage supply with ballast resistors)"))
@@ -244,7 +245,7 @@ def parse_design(text: str) -> Design:
         raise errors[0] if len(errors) == 1 else InputErrors(errors)
     top_v = values.pop("")
     d = Design(str(top_v["name"]), str(top_v["revision"]), str(top_v["date"]), str(top_v["description"]),
-               {**values, "": top_v})  # fmt: skip
+               {**values, "": top_v}, tuple(runs))  # fmt: skip
     try:
         d.module  # noqa: B018 - validates the module line
         if not d.is_cv:

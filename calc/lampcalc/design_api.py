@@ -5,10 +5,10 @@ from __future__ import annotations
 from typing import Any
 
 from .check import check
-from .sheet import render
-from .tolerance import study
 from .design import parse_design
 from .errors import CalcError, InputError, InputErrors, NoSolutionError
+from .sheet import render
+from .tolerance import study
 
 
 def handle(kind: str, req: dict[str, Any]) -> dict[str, Any]:

@@ -431,7 +431,7 @@ def c_wires(ctx: Context) -> list[Check | None]:
     d = ctx.design
     out: list[Check | None] = []
     limit = float(d.get("review", "drop_limit"))
-    for k, w in enumerate(d.values.get("wire", [])):
+    for k, w in enumerate(d.wires):
         size = wr.size_from_area(float(w["size"]), f"wire[{k}].size")
         carries = w["carries"]
         if d.is_cv:
@@ -486,12 +486,12 @@ def c_cv_headroom(ctx: Context) -> Check | None:
                  "keep 10-25 % across the ballast: common practice", {"headroom": h})  # fmt: skip
 
 
-MAINS_CHECKS: tuple[Callable[[Context], Check | None | list[Check | None]], ...] = (
+MAINS_CHECKS: tuple[Callable[[Context], Check | list[Check | None] | None], ...] = (
     c_dropper_class, c_dropper_ac_rating, c_smoothing_open_load, c_smoothing_working, c_bleeders, c_bridge_surge, c_bridge_vrrm,
     c_bridge_average, c_bridge_thermal, c_fuse, c_switch, c_ripple_current, c_life, c_led_current, c_flicker, c_sharing, c_frequency,
     c_wires,
 )  # fmt: skip
-CV_CHECKS: tuple[Callable[[Context], Check | None | list[Check | None]], ...] = (c_led_current, c_cv_ballast, c_cv_headroom, c_wires)
+CV_CHECKS: tuple[Callable[[Context], Check | list[Check | None] | None], ...] = (c_led_current, c_cv_ballast, c_cv_headroom, c_wires)
 
 #: Every check id, for the docs.
 CHECK_IDS = (

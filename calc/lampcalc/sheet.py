@@ -131,7 +131,7 @@ def bom(d: Design, ans: dict[str, Any]) -> list[list[str]]:
 def wiring(d: Design, ans: dict[str, Any]) -> list[list[str]]:
     out = []
     checks = {c["id"]: c for c in ans["checks"]}
-    for k, w in enumerate(d.values.get("wire", [])):
+    for k, w in enumerate(d.wires):
         size = wr.size_from_area(float(w["size"]))
         c = checks.get(f"wire.{k + 1}", {"values": {}})
         vals = c["values"]
@@ -188,7 +188,6 @@ def schematic(d: Design) -> str:
         parts.append(f'<path d="M150 {top + 30} H180 V{top} H{xs + 140}" class="wire"/><path d="M150 {bot - 30} H180 V{bot} H{xs + 140}" class="wire"/>')
         xs = 260.0
     else:
-        _, _, vhi = d.mains_band()
         m = d.values["mains"]
         dr = d.values.get("dropper", {})
         parts.append(f'<circle cx="40" cy="{(top + bot) / 2}" r="20" class="part"/><path d="M28 {(top + bot) / 2} q6 -10 12 0 t12 0" class="wire"/>'
@@ -262,7 +261,7 @@ def histogram(study: dict[str, Any]) -> str:
 
 def render(d: Design, ans: dict[str, Any], study: dict[str, Any] | None) -> str:
     """The sheet body (everything below the page title)."""
-    out = [f'<div class="lb-sheet" markdown="0">']
+    out = ['<div class="lb-sheet" markdown="0">']
     out.append(f'<p class="lb-meta">Revision <strong>{_e(d.revision)}</strong>{", " + _e(d.date) if d.date else ""}'
                f" · {'constant-voltage supply' if d.is_cv else 'mains, no isolation'}</p>")  # fmt: skip
     if d.description:

@@ -60,7 +60,7 @@ def ampacity() -> Table:
         for size, amps in t.ratings.items():
             rows.append((t.key, size, fv(amps, "current"), t.title))
     return Table("Ampacity guidance (never a substitute for the local code)", ("table", "size", "current", "conditions"), tuple(rows),
-                 tuple(f"{t.key}: {t.source}." for t in wire.AMPACITY.values()) + (wire.WIRE_CAUTION,))  # fmt: skip
+                 (*(f"{t.key}: {t.source}." for t in wire.AMPACITY.values()), wire.WIRE_CAUTION))  # fmt: skip
 
 
 def reactance() -> Table:

@@ -34,7 +34,7 @@ class Box:
 
 
 def box_of(d: Design) -> Box:
-    vn, vlo, vhi = d.mains_band()
+    _, vlo, vhi = d.mains_band()
     tol = float(d.get("dropper", "tolerance") or 0.0) if not d.is_cv else 0.0
     from .review import Context
 
