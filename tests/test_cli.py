@@ -94,7 +94,7 @@ def test_check_bad_design_names_key(tmp_path: object) -> None:
 
     p = pathlib.Path(str(tmp_path)) / "bad.toml"
     src = open(os.path.join(DESIGNS, "panel-230.toml")).read()
-    p.write_text(src.replace('capacitance = "220 uF"', 'capacitance = "220 uH"').replace("[array]", "[array]\ncolour = 1"))
+    p.write_text(src.replace('capacitance = "1000 uF"', 'capacitance = "1000 uH"').replace("[array]", "[array]\ncolour = 1"))
     r = lampbook("check", str(p))
     assert r.returncode == 2
     assert "smoothing.capacitance" in r.stderr and "array.colour" in r.stderr
