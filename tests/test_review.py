@@ -143,15 +143,14 @@ def test_frequency_mismatch_runs_about_20_percent_hot() -> None:
     assert 1.15 < ratio < 1.21  # charge balance: current scales with f (X8); the load line takes a little back
 
 
-def test_wire_over_table_fails_NEC_400_5() -> None:
-    text = BASE + '\n[[wire]]\nname = "thin"\nsize = "18 AWG"\nlength = "1 m"\ncarries = "line"\ntable = "us-cord"\n'
-    ans = check(parse_design(text))
-    assert next(c for c in ans["checks"] if c["id"] == "wire.3")["status"] == "pass"
-    big = text.replace('[fuse]\nrating = "315 mA"', '[fuse]\nrating = "20 A"')
-    assert big  # a 10 A cord can't be over-run by this fixture; check the table limit directly instead
-    from lampcalc import wire
-
-    assert wire.ampacity(wire.awg_size(18), "us-cord") == 10.0
+def test_wire_against_its_table_NEC_402_5_secondary_copy() -> None:
+    # 18 AWG fixture wire: 6 A (NEC Table 402.5, secondary copy); a 24 V panel with many strings overruns it
+    text = (DESIGNS / "panel-24v.toml").read_text().replace('table = "us-cord"', 'table = "us-fixture"')
+    ok = check(parse_design(text))
+    assert next(c for c in ok["checks"] if c["id"] == "wire.1")["status"] == "pass"
+    heavy = check(parse_design(text.replace("parallel = 6", "parallel = 120")))
+    c = next(c for c in heavy["checks"] if c["id"] == "wire.1")
+    assert c["values"]["current_A"] > 6.0 and c["status"] == "fail" and "Table 402.5" in c["source"]
 
 
 # --- tolerance study -------------------------------------------------------------------------

@@ -29,7 +29,7 @@ OPERATING_ROWS: tuple[tuple[str, str, str], ...] = (
     ("Smoothing ripple current (rms)", "smoothing_ripple_current_rms_A", "current"),
     ("Diode current, peak", "diode_current_peak_A", "current"),
     ("Input power", "input_power_W", "power"),
-    ("Apparent power (VA)", "apparent_power_VA", "power"),
+    ("Apparent power", "apparent_power_VA", "va"),
     ("Power factor", "power_factor", "number"),
     ("LED power", "led_power_W", "power"),
 )
@@ -53,6 +53,8 @@ def cell(v: Any, kind: str) -> str:
         return f"{v:.1f} %"
     if kind == "number":
         return f"{v:.3g}"
+    if kind == "va":
+        return fv(float(v), "power")[:-1] + "VA"
     return fv(float(v), kind)
 
 
@@ -148,7 +150,7 @@ def wiring(d: Design, ans: dict[str, Any]) -> list[list[str]]:
 def _res(x: float, y: float, vertical: bool, label: str) -> str:
     if vertical:
         return (f'<rect x="{x - 6}" y="{y - 16}" width="12" height="32" class="part"/>'
-                f'<text x="{x + 10}" y="{y + 4}" class="lab">{_e(label)}</text>')  # fmt: skip
+                f'<text x="{x + 9}" y="{y + 4}" class="lab">{_e(label)}</text>')  # fmt: skip
     return (f'<rect x="{x - 16}" y="{y - 6}" width="32" height="12" class="part"/>'
             f'<text x="{x}" y="{y - 10}" class="lab" text-anchor="middle">{_e(label)}</text>')  # fmt: skip
 
@@ -174,18 +176,20 @@ def _led(x: float, y: float) -> str:
 
 
 def schematic(d: Design) -> str:
-    W, H = 760, 300
+    W, H = 780, 300
     top, bot = 70.0, 250.0
     parts: list[str] = []
     arr = d.values["array"]
     s, p, rb = int(arr["series"]), int(arr["parallel"]), float(arr["ballast"])
-    xs = 520.0
+    xs = 530.0
+    shown = min(p, 3)
+    rail_end = (260.0 if d.is_cv else xs) + 90 + (shown - 1) * 48
     if d.is_cv:
         sup = d.values["supply"]
         parts.append(f'<rect x="40" y="{top + 20}" width="110" height="{bot - top - 40}" class="part"/>'
                      f'<text x="95" y="{(top + bot) / 2}" class="lab" text-anchor="middle">{_e(fv(float(sup["voltage"]), "voltage"))} DC</text>'
                      f'<text x="95" y="{(top + bot) / 2 + 14}" class="lab" text-anchor="middle">CV supply</text>')  # fmt: skip
-        parts.append(f'<path d="M150 {top + 30} H180 V{top} H{xs + 140}" class="wire"/><path d="M150 {bot - 30} H180 V{bot} H{xs + 140}" class="wire"/>')
+        parts.append(f'<path d="M150 {top + 30} H180 V{top} H{rail_end}" class="wire"/><path d="M150 {bot - 30} H180 V{bot} H{rail_end}" class="wire"/>')
         xs = 260.0
     else:
         m = d.values["mains"]
@@ -214,17 +218,16 @@ def schematic(d: Design) -> str:
             parts.append(f'<g transform="translate({mx} {my}) rotate({ang})"><path d="M-6 -6 L6 0 L-6 6 Z" class="diode"/>'
                          f'<line x1="6" y1="-6" x2="6" y2="6" class="plate"/></g>')  # fmt: skip
         parts.append(f'<text x="{cx}" y="{cy + 4}" class="lab" text-anchor="middle">bridge</text>')
-        parts.append(f'<path d="M{cx + 60} {cy} H{cx + 80} V{top} H{xs + 140}" class="wire"/><path d="M{cx - 60} {cy} H{cx - 80} V{bot + 22} H{cx + 100} V{bot} H{xs + 140}" class="wire"/>')
+        parts.append(f'<path d="M{cx + 60} {cy} H{cx + 80} V{top} H{rail_end}" class="wire"/><path d="M{cx - 60} {cy} H{cx - 80} V{bot + 22} H{cx + 100} V{bot} H{rail_end}" class="wire"/>')
         sm = d.values["smoothing"]
-        parts.append(f'<path d="M440 {top} V{(top + bot) / 2 - 4}" class="wire"/><path d="M440 {(top + bot) / 2 + 6} V{bot}" class="wire"/>')
-        parts.append(_cap_v(440, (top + bot) / 2, fv(float(sm["capacitance"]), "capacitance") + (f" {fv(float(sm['voltage_rating']), 'voltage')}" if sm.get("voltage_rating") else "")))
+        parts.append(f'<path d="M430 {top} V{(top + bot) / 2 - 4}" class="wire"/><path d="M430 {(top + bot) / 2 + 6} V{bot}" class="wire"/>')
+        parts.append(_cap_v(430, (top + bot) / 2, fv(float(sm["capacitance"]), "capacitance") + (f" {fv(float(sm['voltage_rating']), 'voltage')}" if sm.get("voltage_rating") else "")))
         if sm.get("bleeder"):
-            parts.append(f'<path d="M{xs - 20} {top} V{(top + bot) / 2 - 16}" class="wire"/><path d="M{xs - 20} {(top + bot) / 2 + 16} V{bot}" class="wire"/>')
-            parts.append(_res(xs - 20, (top + bot) / 2, True, fv(float(sm["bleeder"]), "resistance")))
+            parts.append(f'<path d="M{xs + 10} {top} V{(top + bot) / 2 - 16}" class="wire"/><path d="M{xs + 10} {(top + bot) / 2 + 16} V{bot}" class="wire"/>')
+            parts.append(_res(xs + 10, (top + bot) / 2, True, fv(float(sm["bleeder"]), "resistance")))
         parts.append(f'<text x="{cx + 90}" y="{top - 8}" class="lab">+ bus</text>')
-    shown = min(p, 3)
     for k in range(shown):
-        x = xs + 40 + k * 50
+        x = xs + 90 + k * 48
         ys = [top + 30 + j * 30 for j in range(3)]
         parts.append(f'<path d="M{x} {top} V{bot}" class="wire"/>')
         for y in ys[:2]:
@@ -232,9 +235,9 @@ def schematic(d: Design) -> str:
         parts.append(f'<text x="{x}" y="{ys[2] + 4}" class="lab" text-anchor="middle">⋮</text>')
         if rb > 0:
             parts.append(_res(x, bot - 36, True, fv(rb, "resistance") if k == shown - 1 else ""))
-    parts.append(f'<text x="{xs + 40}" y="{bot + 20}" class="lab">{s} modules per string × {p} string{"s" if p > 1 else ""}</text>')
+    parts.append(f'<text x="{xs + 60}" y="{bot + 20}" class="lab">{s} modules per string × {p} string{"s" if p > 1 else ""}</text>')
     style = ("<style>.wire,.part,.plate,.ray{fill:none;stroke:currentColor;stroke-width:1.6}.gap{fill:var(--md-default-bg-color,#fff);stroke:none}"
-             ".diode{fill:currentColor}.lab{font:11px sans-serif;fill:currentColor}.ray{stroke-width:1}</style>")  # fmt: skip
+             ".diode{fill:currentColor}.lab{font:12px sans-serif;fill:currentColor}.ray{stroke-width:1}</style>")  # fmt: skip
     return (f'<figure class="lb-schematic"><svg viewBox="0 0 {W} {H}" role="img" aria-label="Schematic of {_e(d.name)}">{style}'
             + "".join(parts) + "</svg><figcaption>Schematic drawn from the design file (line conductor on top).</figcaption></figure>")
 
