@@ -95,7 +95,7 @@ def build_site(folder: Path, compile_stdlib: bool) -> float:
 
     shutil.copytree(ROOT / "docs", folder / "docs")
     y = (ROOT / "mkdocs.yml").read_text().replace(
-        "  - lampbook\n",
+        "  - lampbook:\n",
         f"  - lampbook:\n      runtime: {ROOT / 'node_modules' / 'pyodide'}\n      cache_dir: {ROOT / '.cache' / 'lampbook'}\n"
         f"      compile_stdlib: {'true' if compile_stdlib else 'false'}\n",
     )
@@ -152,12 +152,41 @@ def bench_browser() -> dict[str, object]:
     return res
 
 
+def bench_pyodide_study() -> dict[str, object]:
+    from lampbook.bundle import build_wheel
+
+    with tempfile.TemporaryDirectory() as d:
+        wheel = build_wheel(Path(d))
+        designs = [str(p) for p in sorted((ROOT / "docs" / "designs").glob("*.toml")) if p.stem != "unsafe-demo"]
+        r = subprocess.run(["node", str(ROOT / "bench" / "pyodide_study.mjs"), str(ROOT / "node_modules" / "pyodide"), str(wheel), *designs],
+                           capture_output=True, text=True, timeout=900)  # fmt: skip
+        if r.returncode:
+            raise SystemExit(r.stderr[-2000:])
+        return json.loads(r.stdout.strip().splitlines()[-1])
+
+
+def bench_native_study() -> dict[str, float]:
+    from lampcalc.design import parse_design
+    from lampcalc.tolerance import study
+
+    out = {}
+    for p in sorted((ROOT / "docs" / "designs").glob("*.toml")):
+        if p.stem == "unsafe-demo":
+            continue
+        d = parse_design(p.read_text())
+        out[p.name] = per_call(lambda d=d: study(d, samples=1000), repeat=3, number=1)
+    return out
+
+
 def main() -> None:
     t0 = time.time()
     calcs = bench_calculators()
+    studies = bench_pyodide_study()
+    native = bench_native_study()
     solver = bench_solver()
     browser = bench_browser()
-    data = {"machine": {"python": sys.version.split()[0], "cpus": os.cpu_count()}, "calculators": calcs, "solver": solver, "browser": browser}
+    data = {"machine": {"python": sys.version.split()[0], "cpus": os.cpu_count()}, "calculators": calcs, "solver": solver, "browser": browser,
+            "study_pyodide": studies, "study_native_s": native}  # fmt: skip
     (ROOT / "bench" / "results.json").write_text(json.dumps(data, indent=1, sort_keys=True))
     lines = ["# Benchmark results", "", f"Written by `make bench` ({time.strftime('%Y-%m-%d')}, {time.time() - t0:.0f} s run, "
              f"Python {data['machine']['python']}, {data['machine']['cpus']} cores).", "",
@@ -167,6 +196,11 @@ def main() -> None:
               "| design | solve | steps | Newton iterations | ngspice | periods simulated | ngspice / lampbook |", "|---|---|---|---|---|---|---|"]  # fmt: skip
     lines += [f"| {s['design']} | {s['solve_ms']:.1f} ms | {s['steps']} | {s['newton_iterations']} | {s['ngspice_s']:.2f} s | "
               f"{s['ngspice_periods']} | {s['ratio']:.0f}× |" for s in solver]  # fmt: skip
+    lines += ["", "## Tolerance study, 1,000 Monte Carlo samples (reduced model, 25 + 12 exact solves)", "",
+              "| design | Pyodide on Node | CPython | one steady state in Pyodide | reduced-model error |", "|---|---|---|---|---|"]  # fmt: skip
+    for name, st in studies.items():  # type: ignore[union-attr]
+        solve_txt = f"{st['solve_s'] * 1e3:.1f} ms" if st["solve_s"] is not None else "— (CV design, closed form)"
+        lines.append(f"| {name} | {st['study_s']:.2f} s | {native[name]:.2f} s | {solve_txt} | {st['max_relative_error']:.2e} |")
     lines += ["", "## Handbook in Chromium (dropper page, medians of 3, ms from navigation start)", "",
               "| standard library | visit | first paint (prerendered answer) | engine ready | first live result |", "|---|---|---|---|---|"]  # fmt: skip
     for key in ("compiled_stdlib", "source_stdlib"):

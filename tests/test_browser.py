@@ -27,7 +27,7 @@ def demo(tmp_path_factory: pytest.TempPathFactory) -> Iterator[tuple[Path, Serve
     folder = tmp_path_factory.mktemp("demo")
     shutil.copytree(ROOT / "docs", folder / "docs")
     y = (ROOT / "mkdocs.yml").read_text() + "\n"
-    y = y.replace("  - lampbook\n", f"  - lampbook:\n      runtime: {ROOT / 'node_modules' / 'pyodide'}\n      cache_dir: {ROOT / '.cache' / 'lampbook'}\n")
+    y = y.replace("  - lampbook:\n", f"  - lampbook:\n      runtime: {ROOT / 'node_modules' / 'pyodide'}\n      cache_dir: {ROOT / '.cache' / 'lampbook'}\n")
     (folder / "mkdocs.yml").write_text(y)
     r = build(folder)
     assert r.returncode == 0, r.stderr
@@ -218,5 +218,72 @@ def test_rebuilt_site_replaces_the_cache(tmp_path: Path, browser: object) -> Non
         v.ctx.set_offline(True)
         v.page.reload()
         assert v.page.locator("h1").inner_text() == "Two"
+    finally:
+        srv.close()
+
+
+def test_open_design_from_device(demo: tuple[Path, Server], browser: object) -> None:
+    v = Visit(browser, demo[1].url, viewport={"width": 390, "height": 844}, is_mobile=True)
+    v.open("designs/open/")
+    v.page.wait_for_selector(".lb-open[data-live]")
+    v.page.set_input_files(".lb-open-file", str(ROOT / "docs" / "designs" / "worklight-120.toml"))
+    v.page.wait_for_selector(".lb-open-out .lb-verdict", timeout=90000)
+    from lampcalc.check import check
+    from lampcalc.design import parse_design
+    from lampcalc.sheet import cell
+
+    ans = check(parse_design((ROOT / "docs" / "designs" / "worklight-120.toml").read_text()))
+    text = v.page.locator(".lb-open-out").inner_text()
+    assert cell(ans["nominal"]["led_current_avg_A"], "current") in text
+    assert "no check failed" in text
+    # a bad file: the error names the key, nothing else breaks
+    bad = demo[0] / "bad.toml"
+    bad.write_text('name = "x"\n[mains]\nvoltage = "230"\n')
+    v.page.set_input_files(".lb-open-file", str(bad))
+    v.page.wait_for_selector(".lb-open-err li", timeout=30000)
+    assert "mains.voltage" in v.page.locator(".lb-open-err").inner_text()
+    assert not v.foreign and not v.errors
+
+
+def test_demo_pages_fetch_nothing_foreign(demo: tuple[Path, Server], browser: object) -> None:
+    v = Visit(browser, demo[1].url)
+    site = demo[0] / "site"
+    pages = sorted(p.parent.relative_to(site).as_posix() + "/" for p in site.rglob("index.html"))
+    for path in pages:
+        v.open("" if path == "./" else path)
+        v.page.wait_for_load_state("load")
+    assert not v.foreign, v.foreign[:5]
+    assert not v.errors
+
+
+def test_scaffolded_handbook_works_offline(tmp_path: Path, browser: object) -> None:
+    import subprocess
+    import sys
+
+    folder = tmp_path / "mine"
+    r = subprocess.run([sys.executable, "-m", "lampbook.cli", "new", str(folder), "--name", "Bench book"], capture_output=True, text=True)
+    assert r.returncode == 0, r.stderr
+    # what `npm install pyodide@VERSION` would put there: the same package this repository pins
+    (folder / "node_modules").mkdir()
+    (folder / "node_modules" / "pyodide").symlink_to(ROOT / "node_modules" / "pyodide")
+    y = (folder / "mkdocs.yml").read_text().replace("      designs: designs", f"      designs: designs\n      cache_dir: {ROOT / '.cache' / 'lampbook'}")
+    (folder / "mkdocs.yml").write_text(y)
+    r = build(folder)
+    assert r.returncode == 0, r.stderr
+    assert (folder / "site" / "designs" / "first-fixture" / "index.html").is_file()
+    srv = Server(folder / "site")
+    try:
+        v = Visit(browser, srv.url)
+        v.open("")
+        v.ready()
+        v.offline_ready()
+        v.ctx.set_offline(True)
+        v.page.reload()
+        v.ready()
+        box = v.page.locator(".lb-calc").first.get_attribute("id")
+        assert box
+        v.set(box, "capacitance", "0.47 uF")
+        assert v.out(box, "led_current_avg") == compute("dropper", block_inputs(v, box))["display"]["led_current_avg"]
+        assert not v.foreign
     finally:
         srv.close()

@@ -139,3 +139,47 @@ def test_disabled_plugin_leaves_code(tmp_path: Path) -> None:
     r = build(folder)
     assert r.returncode == 0, r.stderr
     assert 'class="lb-calc"' not in (folder / "site" / "index.html").read_text()
+
+
+def test_design_folder_becomes_sheet_pages(tmp_path: Path) -> None:
+    from sites import ROOT
+
+    folder = write_site(tmp_path, {"index.md": "# Home\n"}, engine=False)
+    (folder / "docs" / "designs").mkdir()
+    for name in ("panel-230.toml", "panel-24v.toml"):
+        (folder / "docs" / "designs" / name).write_text((ROOT / "docs" / "designs" / name).read_text())
+    y = (folder / "mkdocs.yml").read_text().replace("      engine: false", "      engine: false\n      designs: designs")
+    (folder / "mkdocs.yml").write_text(y)
+    r = build(folder, strict=False)
+    assert r.returncode == 0, r.stderr
+    page = (folder / "site" / "designs" / "panel-230" / "index.html").read_text()
+    assert "Operating table" in page and "Bill of materials" in page and "<svg" in page and "dropper.ac_rating" in page
+    assert (folder / "site" / "designs" / "panel-24v" / "index.html").is_file()
+    # a broken design fails the build, naming the file and the key
+    (folder / "docs" / "designs" / "broken.toml").write_text('name = "b"\n[supply]\nkind = "cv"\nvoltage = "24"\n[module]\n')
+    r = build(folder, strict=False)
+    assert r.returncode != 0 and "designs/broken.toml" in r.stderr and "supply.voltage" in r.stderr
+
+
+def test_reference_tables_equal_core(tmp_path: Path) -> None:
+    from lampcalc.tables import TABLES
+
+    body = "".join(f"```lampbook-table\ntable: {name}\n```\n\n" for name in TABLES)
+    folder = write_site(tmp_path, {"index.md": "# Tables\n\n" + body}, engine=False)
+    r = build(folder)
+    assert r.returncode == 0, r.stderr
+    page = (folder / "site" / "index.html").read_text()
+    for name, fn in TABLES.items():
+        t = fn()
+        m = re.search(rf'<div class="lb-reftable" data-table="{name}">(.*?)</ul></div>', page, re.S)
+        assert m, name
+        cells = [html.unescape(c) for c in re.findall(r"<td>(.*?)</td>", m.group(1), re.S)]
+        assert cells == [c for row in t.rows for c in row], name
+        for src in t.sources:
+            assert html.escape(src, quote=True) in page or src in html.unescape(page)
+
+
+def test_bad_table_block_fails(tmp_path: Path) -> None:
+    folder = write_site(tmp_path, {"t.md": "# T\n\n```lampbook-table\ntable: nope\n```\n"}, engine=False)
+    r = build(folder)
+    assert r.returncode != 0 and "t.md" in r.stderr and "table: got 'nope'" in r.stderr
