@@ -81,6 +81,12 @@ class Visit:
         self.until("navigator.serviceWorker.ready.then(r => r.active && r.active.state === 'activated')")
         self.until("navigator.serviceWorker.controller !== null")
 
+    def first_visit(self, path: str = "") -> None:
+        """Open a page once and wait until the engine runs and the offline cache is in place."""
+        self.open(path)
+        self.ready()
+        self.offline_ready()
+
     def computed(self, box: str, before: int) -> None:
         self.page.wait_for_function(f"Number(document.querySelector('#{box}').dataset.computed || 0) > {before}", timeout=30000)
 
@@ -151,9 +157,7 @@ def test_prerendered_answer_without_javascript(demo: tuple[Path, Server], browse
 
 def test_offline_after_one_visit(demo: tuple[Path, Server], browser: object) -> None:
     v = Visit(browser, demo[1].url)
-    v.open("calculators/ripple/")
-    v.ready()
-    v.offline_ready()
+    v.first_visit("calculators/ripple/")
     v.ctx.set_offline(True)
     v.page.reload()
     v.ready()
@@ -205,9 +209,7 @@ def test_rebuilt_site_replaces_the_cache(tmp_path: Path, browser: object) -> Non
     srv = Server(folder / "site")
     try:
         v = Visit(browser, srv.url)
-        v.open("")
-        v.ready()
-        v.offline_ready()
+        v.first_visit()
         first = v.page.evaluate("caches.keys()")
         (folder / "docs" / "index.md").write_text("# Two\n\n```lampbook\ncalculator: preferred\nvalue: 330\n```\n")
         assert build(folder).returncode == 0
@@ -274,9 +276,7 @@ def test_scaffolded_handbook_works_offline(tmp_path: Path, browser: object) -> N
     srv = Server(folder / "site")
     try:
         v = Visit(browser, srv.url)
-        v.open("")
-        v.ready()
-        v.offline_ready()
+        v.first_visit()
         v.ctx.set_offline(True)
         v.page.reload()
         v.ready()

@@ -9,7 +9,6 @@ import re
 from pathlib import Path
 
 import pytest
-
 from lampcalc.check import check
 from lampcalc.design import parse_design
 from lampcalc.review import capacitor_life
