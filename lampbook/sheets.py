@@ -18,7 +18,7 @@ class SheetError(ValueError):
 def sheet_markdown(text: str, where: str) -> str:
     try:
         d = parse_design(text)
-        ans = check(d)
+        ans = check(d, waveforms=True)
         st = study(d)
     except InputErrors as e:
         raise SheetError(f"{where}: " + "; ".join(x.message for x in e.errors)) from None

@@ -287,3 +287,15 @@ def test_scaffolded_handbook_works_offline(tmp_path: Path, browser: object) -> N
         assert not v.foreign
     finally:
         srv.close()
+
+
+def test_offline_search(demo: tuple[Path, Server], browser: object) -> None:
+    v = Visit(browser, demo[1].url)
+    v.first_visit("calculators/wire/")
+    v.ctx.set_offline(True)
+    v.open("")
+    v.page.locator(".md-search__input").first.focus()
+    v.page.keyboard.type("bleeder")
+    v.page.wait_for_selector(".md-search-result__item", timeout=30000)
+    assert v.page.locator(".md-search-result__item").count() > 0
+    assert not v.foreign

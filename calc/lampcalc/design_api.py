@@ -21,7 +21,7 @@ def handle(kind: str, req: dict[str, Any]) -> dict[str, Any]:
             return {"ok": True, **study(d, samples=req.get("samples"), seed=req.get("seed"))}
         if kind == "sheet":
             d = parse_design(str(req.get("toml", "")))
-            ans = check(d)
+            ans = check(d, waveforms=True)
             st = study(d)
             return {"ok": True, "name": d.name, "html": render(d, ans, st), "failed": ans["failed"]}
         raise InputError("kind", kind, "one of describe, compute, check, study, sheet")

@@ -242,6 +242,33 @@ def schematic(d: Design) -> str:
             + "".join(parts) + "</svg><figcaption>Schematic drawn from the design file (line conductor on top).</figcaption></figure>")
 
 
+def waveform(w: dict[str, list[float]]) -> str:
+    """LED current and bus voltage over one mains period, two stacked plots with axes and units."""
+    t = w["t"]
+    if not t:
+        return ""
+    T = t[-1] + (t[1] - t[0])
+    W, Hp, L, R = 360, 110, 52, 10
+    out = []
+    for k, (key, unit, dim, colour) in enumerate((("led_current_A", "LED current", "current", "#c8780a"), ("bus_V", "bus voltage", "voltage", "#26323a"))):
+        ys = w[key]
+        lo, hi = min(ys), max(ys)
+        pad = (hi - lo) * 0.1 or abs(hi) * 0.05 or 1.0
+        y0, y1 = lo - pad, hi + pad
+        top = 10 + k * (Hp + 24)
+        pts = " ".join(f"{L + (W - L - R) * ti / T:.1f},{top + Hp * (1 - (y - y0) / (y1 - y0)):.1f}" for ti, y in zip(t, ys))
+        out.append(f'<text x="{L - 4}" y="{top + 8}" class="tk" text-anchor="end">{_e(fv(y1, dim))}</text>'
+                   f'<text x="{L - 4}" y="{top + Hp}" class="tk" text-anchor="end">{_e(fv(y0, dim))}</text>'
+                   f'<line x1="{L}" y1="{top + Hp}" x2="{W - R}" y2="{top + Hp}" class="ax"/><line x1="{L}" y1="{top}" x2="{L}" y2="{top + Hp}" class="ax"/>'
+                   f'<polyline points="{pts}" fill="none" stroke="{colour}" stroke-width="1.8"/>'
+                   f'<text x="{W - R}" y="{top + 10}" class="tk" text-anchor="end">{_e(unit)}</text>')  # fmt: skip
+    Ht = 2 * (Hp + 24) + 6
+    out.append(f'<text x="{L}" y="{Ht}" class="tk">0</text><text x="{W - R}" y="{Ht}" class="tk" text-anchor="end">{_e(fv(T, "time"))}</text>')
+    return (f'<figure class="lb-fig"><svg viewBox="0 0 {W} {Ht + 4}" role="img" aria-label="LED current and bus voltage over one period">'
+            "<style>.ax{stroke:currentColor}.tk{font:10px sans-serif;fill:currentColor}</style>" + "".join(out) +
+            "</svg><figcaption>One mains period at nominal mains, from the steady-state solve.</figcaption></figure>")  # fmt: skip
+
+
 def histogram(study: dict[str, Any]) -> str:
     h = study["histogram"]
     counts = h["counts"]
@@ -285,6 +312,8 @@ def render(d: Design, ans: dict[str, Any], study: dict[str, Any] | None) -> str:
     if ans.get("steps"):
         out.append("<h3>Brightness steps (nominal mains)</h3>")
         out.append(_table(["dropper", "LED current"], [[fv(st["capacitance_F"], "capacitance"), fv(st["led_current_avg_A"], "current")] for st in ans["steps"]]))
+    if ans.get("waveform"):
+        out.append(waveform(ans["waveform"]))
     if not d.is_cv:
         out.append(f"<p>Switch-on at the crest, high mains: <strong>{_e(fv(ans['switch_on_peak_A'], 'current'))}</strong> peak, "
                    f"{_e(fv(ans['switch_on_energy_J'], 'energy'))} in the series resistor. Every string open: the bus climbs to "
