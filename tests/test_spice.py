@@ -30,6 +30,10 @@ DESIGNS = {
     "120-4u7-bus40pct-ballast": Circuit(120, 60, 33, 4.7e-6, 220e3, LINE, 220e-6, 0.4, 100e3, s(24, p=2, ballast=22)),
     # 240 V / 50 Hz, large dropper bank (20 uF) and 2200 uF smoothing, bus ~0.2 of peak
     "240-20uF-bus20pct-2200uF": Circuit(240, 50, 10, 20e-6, 100e3, LINE, 2200e-6, 0.05, 47e3, s(24, p=6)),
+    # 120 V, a 200 uF dropper bank (about 13 Ω at 60 Hz) feeding ten ballasted strings, large smoothing
+    "120-200uF-bus40pct-10mF": Circuit(120, 60, 2.2, 200e-6, 1e5, LINE, 10000e-6, 0.02, 10e3, s(24, p=10, ballast=4.7)),
+    # 230 V, 100 uF bank and 4700 uF smoothing, bus about 0.35 of the peak
+    "230-100uF-bus35pct-4700uF": Circuit(230, 50, 4.7, 100e-6, 1e5, LINE, 4700e-6, 0.05, 10e3, s(40, p=10, ballast=10)),
     # 230 V resistor-fed, bus near the crest
     "230-resistor-fed": Circuit(230, 50, 680, None, None, LINE, 100e-6, 0.5, 220e3, s(110, p=1)),
     # 240 V open load: no strings, only the bleeder
