@@ -106,9 +106,11 @@ def render(block: Block, safety_url: str | None) -> str:
         outs.append(f'<tr data-out="{_esc(o.name)}"{" hidden" if v is None else ""}><th>{_esc(o.label)}</th><td>{_esc(shown)}</td></tr>')
     has_imperial = any(p.imperial for p in calc.params)
     caution = ""
-    if calc.mains:
+    if calc.mains or calc.mains_modes:
         link = f' <a href="{_esc(safety_url)}">Read the safety page.</a>' if safety_url else ""
-        caution = f'<p class="lb-caution"><strong>Mains:</strong> no isolation, stored charge. Local codes and licensed practice decide.{link}</p>'
+        when = "" if calc.mains else f" (when {calc.mode} is {' or '.join(calc.mains_modes)})"
+        caution = (f'<p class="lb-caution"><strong>Mains{_esc(when)}:</strong> no isolation, stored charge. '
+                   f"Local codes and licensed practice decide.{link}</p>")  # fmt: skip
     title = block.title or calc.title
     payload = json.dumps({"id": bid, "calculator": calc.name, "declaration": desc, "answer": ans}, sort_keys=True, ensure_ascii=False)
     payload = payload.replace("</", "<\\/")

@@ -299,3 +299,16 @@ def test_offline_search(demo: tuple[Path, Server], browser: object) -> None:
     v.page.wait_for_selector(".md-search-result__item", timeout=30000)
     assert v.page.locator(".md-search-result__item").count() > 0
     assert not v.foreign
+
+
+def test_print_stylesheet_gives_a_clean_sheet(demo: tuple[Path, Server], browser: object) -> None:
+    v = Visit(browser, demo[1].url)
+    v.open("designs/panel-230/")
+    v.page.emulate_media(media="print")
+    hidden = v.page.evaluate("""() => ['.md-header', '.md-sidebar--primary', '.md-footer']
+        .map(s => document.querySelector(s)).filter(Boolean).map(e => getComputedStyle(e).display)""")
+    assert hidden and all(d == "none" for d in hidden)
+    assert v.page.locator(".lb-sheet").is_visible() and v.page.locator(".lb-schematic svg").is_visible()
+    ARTIFACTS.mkdir(exist_ok=True)
+    pdf = v.page.pdf(path=str(ARTIFACTS / "panel-230-sheet.pdf"))
+    assert len(pdf) > 10000

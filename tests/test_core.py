@@ -30,6 +30,12 @@ def test_mains_calculators_carry_cautions() -> None:
             assert any("Local codes" in c for c in ans["cautions"]), name
 
 
+def test_string_planner_cautions_follow_the_supply() -> None:
+    assert any("No isolation" in c for c in compute("string", {"supply": "dropper", "current": "30 mA"})["cautions"])
+    cv = compute("string", {"supply": "cv"})["cautions"]
+    assert cv and not any("No isolation" in c for c in cv)
+
+
 def test_led_fit_from_two_points() -> None:
     m = LedModule.from_points(0.02, 2.72, 0.06, 2.80)
     assert m.r_dynamic == pytest.approx(2.0)

@@ -6,6 +6,7 @@ from __future__ import annotations
 import math
 from collections.abc import Mapping
 
+from . import cautions as caution_text
 from . import dropper as drop
 from . import ripple as rip
 from . import strings, wire
@@ -192,7 +193,7 @@ def _string(v: V) -> Result:
              "efficiency": o.efficiency, "headroom": o.headroom}
             for o in opts
         )  # fmt: skip
-        return Result(values, rows, tuple(notes), tuple(warnings))
+        return Result(values, rows, tuple(notes), tuple(warnings), caution_text.LOW_VOLTAGE)
     if supply == "cc":
         mods = opt(v, "modules")
         cc = strings.cc_options(m, f(v, "driver_current"), f(v, "driver_v_min"), f(v, "driver_v_max"), t_cold, t_hot,
@@ -215,7 +216,7 @@ def _string(v: V) -> Result:
             for o in cc
         )  # fmt: skip
         notes.append("Cold: high Vf end at the cold temperature; hot: low Vf end at the hot temperature.")
-        return Result(values, rows_cc, tuple(notes), tuple(warnings))
+        return Result(values, rows_cc, tuple(notes), tuple(warnings), caution_text.LOW_VOLTAGE)
     # dropper bus
     vn, _, _, fr = mains_range(v)
     dopts = strings.dropper_options(m, vn, fr, f(v, "mains_plus"), i, f(v, "diode_drop"))
@@ -239,7 +240,7 @@ def _string(v: V) -> Result:
          "string_current_max": o.current_high_mains, "sensitivity": o.sensitivity}
         for o in dopts
     )  # fmt: skip
-    return Result(values, rows, tuple(notes), tuple(warnings))
+    return Result(values, rows, tuple(notes), tuple(warnings), caution_text.MAINS)
 
 
 _CV, _CC, _DR = ("cv",), ("cc",), ("dropper",)
@@ -281,6 +282,7 @@ STRING = Calculator(
     _string,
     mains=False,
     mode="supply",
+    mains_modes=("dropper",),
     columns=(
         Output("series", "S", "count"), Output("parallel", "P", "count"), Output("ballast", "Ballast", "resistance"),
         Output("string_current", "I", "current"), Output("string_current_max", "I worst", "current"),

@@ -54,6 +54,7 @@ class Result:
     rows: tuple[Mapping[str, Value], ...] = ()
     notes: tuple[str, ...] = ()
     warnings: tuple[str, ...] = ()
+    cautions: tuple[str, ...] | None = None  # None: the calculator's own
 
 
 @dataclass(frozen=True)
@@ -68,6 +69,7 @@ class Calculator:
     mode: str | None = None  # name of the param that picks a mode
     columns: tuple[Output, ...] = ()  # the table of options, if any
     plots: tuple[str, ...] = ()  # names of sweeps the page may draw
+    mains_modes: tuple[str, ...] = ()  # values of the mode param that put the result on the mains
 
     def param(self, name: str) -> Param:
         for p in self.params:
@@ -178,7 +180,7 @@ def to_json(calc: Calculator, result: Result) -> dict[str, object]:
         "rows_display": [{c.name: format_output(c, r.get(c.name)) for c in calc.columns} for r in result.rows],
         "notes": list(result.notes),
         "warnings": list(result.warnings),
-        "cautions": list(calc.cautions),
+        "cautions": list(calc.cautions if result.cautions is None else result.cautions),
     }
 
 
@@ -189,6 +191,7 @@ def describe(calc: Calculator) -> dict[str, object]:
         "title": calc.title,
         "summary": calc.summary,
         "mains": calc.mains,
+        "mains_modes": list(calc.mains_modes),
         "mode": calc.mode,
         "params": [
             {

@@ -102,4 +102,4 @@ class LampbookPlugin(BasePlugin[LampbookConfig]):
         except bundle.BundleError as e:
             raise PluginError(f"lampbook: {e}") from None
         version = bundle.write_service_worker(site, (ASSETS / "sw.js").read_text())
-        log.info("lampbook: engine bundled, offline cache %s", version)
+        log.info("engine bundled, offline cache %s", version)
