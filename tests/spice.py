@@ -48,6 +48,7 @@ class SpiceResult:
     power_factor: float
     seconds: float
     periods: int
+    attempts: int = 1
 
 
 def netlist(c: Circuit, periods: int, points_per_period: int = 4000) -> str:
@@ -117,7 +118,9 @@ def run(c: Circuit, periods: int = 60, points_per_period: int = 4000) -> SpiceRe
         # ngspice's step control can give up on the sharp turn-on of stiff, high-current designs: retry with
         # a looser relative tolerance (the step stays bounded by T/points), then from its own t = 0 operating point
         tries = [text, text.replace("reltol=1e-4", "reltol=1e-3"), netlist(c, 3 * periods, points_per_period).replace(" uic", "")]
+        n_try = 0
         for attempt in tries:
+            n_try += 1
             with open(path, "w") as fh:
                 fh.write(attempt)
             proc = subprocess.run([NGSPICE, "-b", path], cwd=d, capture_output=True, text=True, timeout=600)
@@ -155,4 +158,5 @@ def run(c: Circuit, periods: int = 60, points_per_period: int = 4000) -> SpiceRe
         power_factor=p_in / (c.mains_voltage * i_rms) if i_rms > 0 else 0.0,
         seconds=seconds,
         periods=periods,
+        attempts=n_try,
     )
