@@ -264,7 +264,6 @@ class Mode:
         self.strings_g = tuple(
             _scale(_add(vb, _lin(d=-s.knee)), 1.0 if is_on else -1.0) for s, is_on in zip(sol.loads, on)
         )
-        self.den_inv = 0.0
 
 
 class Solver:
