@@ -312,3 +312,22 @@ def test_print_stylesheet_gives_a_clean_sheet(demo: tuple[Path, Server], browser
     ARTIFACTS.mkdir(exist_ok=True)
     pdf = v.page.pdf(path=str(ARTIFACTS / "panel-230-sheet.pdf"))
     assert len(pdf) > 10000
+
+
+def test_engine_timeout_is_shown(tmp_path: Path, browser: object) -> None:
+    # a server that sends .wasm with the wrong type makes Pyodide hang: the page must say so, keep the prerendered answer
+    from sites import write_site
+
+    folder = write_site(tmp_path / "t", {"index.md": "# T\n\n```lampbook\ncalculator: preferred\n```\n"},
+                        extra="      load_timeout: 3\n")
+    assert build(folder).returncode == 0
+    srv = Server(folder / "site")
+    try:
+        v = Visit(browser, srv.url)
+        v.ctx.route(re.compile(r".*pyodide[.]asm[.]wasm$"), lambda route: None)  # never answered
+        v.open("")
+        v.page.wait_for_selector(".lb-engine[data-state^=failed]", timeout=30000)
+        assert "application/wasm" in v.page.locator(".lb-engine").first.inner_text()
+        assert v.out("lb-preferred-1", "nearest") == compute("preferred", {})["display"]["nearest"]
+    finally:
+        srv.close()

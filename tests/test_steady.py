@@ -77,6 +77,14 @@ def test_no_conduction_is_an_error() -> None:
         solve(base(strings=(StringLoad(400.0, 50.0, 1),)))
 
 
+def test_non_convergence_says_what_and_why() -> None:
+    from lampcalc.errors import ConvergenceError
+    from lampcalc.steady import Solver
+
+    with pytest.raises(ConvergenceError, match=r"state after a half period.*after 1 Newton steps"):
+        Solver(base()).solve((0.0, 0.0), max_iter=1)
+
+
 def test_nonphysical_values_are_input_errors() -> None:
     with pytest.raises(InputError, match=r"smoothing\.capacitance"):
         solve(base(smoothing=-1.0))

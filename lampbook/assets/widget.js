@@ -9,6 +9,7 @@ const root = new URL(site.root, location.href);
 let worker = null;
 let engineState = "static"; // static | loading | ready | failed
 let offlineReady = false;
+let failReason = "";
 let seq = 0;
 const pending = new Map();
 
@@ -17,7 +18,7 @@ function setStatus() {
     static: "answers computed at build time",
     loading: "starting the engine…",
     ready: offlineReady ? "live · offline-ready" : "live",
-    failed: "engine unavailable: answers shown were computed at build time",
+    failed: "engine unavailable" + (failReason ? " (" + failReason + ")" : "") + ": answers shown were computed at build time",
   }[engineState];
   for (const el of document.querySelectorAll(".lb-engine")) {
     el.textContent = text;
@@ -33,6 +34,7 @@ function startEngine() {
   const timer = setTimeout(() => {
     if (engineState === "loading") {
       engineState = "failed";
+      failReason = `no start within ${site.timeout} s; is .wasm served as application/wasm?`;
       setStatus();
       startOffline();
       console.error("lampbook: the engine did not start within " + site.timeout + " s (check that .wasm files are served as application/wasm)");
@@ -50,6 +52,7 @@ function startEngine() {
     } else if (m.type === "failed") {
       clearTimeout(timer);
       engineState = "failed";
+      failReason = String(m.error).slice(0, 120);
       setStatus();
       startOffline();
       console.error("lampbook engine:", m.error);
