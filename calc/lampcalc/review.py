@@ -334,10 +334,13 @@ def c_life(ctx: Context) -> Check | None:
     t = ta + rise
     hours = capacitor_life(life / 3600.0, float(d.get("smoothing", "rated_temperature")), t)
     target = float(d.get("review", "life_target")) / 3600.0
+    # the rule is only trusted within limits: beyond 100,000 h (about 11 years) other ageing takes over
+    shown = f"about {hours:,.0f} h" if hours < 100_000 else "100,000 h or more (the rule is not trusted further)"
     return Check("smoothing.life", PASS if hours >= target else (WARN if hours >= target / 4 else FAIL),
-                 f"about {hours:,.0f} h at {t:.0f} °C core (ambient {ta:.0f} °C + {rise:.1f} K ripple heating) against a {target:,.0f} h target",
+                 f"{shown} at {t:.0f} °C core (ambient {ta:.0f} °C + {rise:.1f} K ripple heating) against a {target:,.0f} h target",
                  "Electrolytic life halves for every 10 K hotter; a dried-out capacitor raises ripple and flicker.",
-                 "10 °C rule L = L0·2^((T_rated − T)/10) (secondary copies; common practice); self-heating 5 K at rated ripple: common practice",
+                 "10 °C rule L = L0·2^((T_rated − T)/10) (secondary copies; common practice); self-heating 5 K at rated ripple "
+                 "and the 100,000 h ceiling: common practice",
                  {"life_h": hours, "core_C": t, "target_h": target})  # fmt: skip
 
 
