@@ -37,7 +37,9 @@ def answer(desc: Mapping[str, Any], ans: Mapping[str, Any]) -> str:
     if ans["rows"] and cols:
         parts.append("")
         parts.append(table([c["label"] for c in cols], [[r[c["name"]] for c in cols] for r in ans["rows_display"]]))
-    mains = desc["mains"] or bool(ans["cautions"] and len(ans["cautions"]) > 1)
+    from lampcalc.cautions import MAINS
+
+    mains = list(ans["cautions"]) == list(MAINS)
     for title, key in (("Warnings:", "warnings"), ("Notes:", "notes"), ("CAUTION (mains):" if mains else "CAUTION:", "cautions")):
         block = bullets(title, ans[key])
         if block:

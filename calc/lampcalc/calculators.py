@@ -10,6 +10,7 @@ from . import cautions as caution_text
 from . import dropper as drop
 from . import ripple as rip
 from . import strings, wire
+from .errors import InputError, NoSolutionError
 from .eseries import SERIES, next_down, preferred
 from .flicker import ieee1789_band
 from .led import DEFAULT_TEMPCO, LedModule
@@ -105,8 +106,6 @@ def _module(v: V) -> Result:
         m = LedModule.from_points(i1, v1, i2, v2, current_ref=i, **kw)
         notes.append("V0 and Rd fitted through the two datasheet points.")
     elif any(p is not None for p in pts):
-        from .errors import InputError
-
         raise InputError("i1", "partly given", "all four of i1, v1, i2, v2, or none")
     else:
         m = LedModule(v0=f(v, "v0"), r_dynamic=f(v, "r_dynamic"), current_ref=i, **kw)
@@ -163,15 +162,11 @@ def _string(v: V) -> Result:
         opts = strings.cv_options(m, f(v, "supply_voltage"), f(v, "supply_tolerance"), i, t_cold, t_hot,
                                   str(v["e_series"]), f(v, "derating"))  # fmt: skip
         if not opts:
-            from .errors import NoSolutionError
-
             raise NoSolutionError("supply_voltage", format_value(f(v, "supply_voltage"), "voltage"),
                                   "a supply above one module's forward voltage", "no series count fits this supply")  # fmt: skip
         want = opt(v, "series")
         pick = next((o for o in opts if o.series == want), None) if want else strings.cv_pick(opts)
         if want and pick is None:
-            from .errors import InputError
-
             raise InputError("series", int(want), f"at most {opts[-1].series} modules for this supply")
         if pick is None:
             pick = opts[0]
@@ -221,8 +216,6 @@ def _string(v: V) -> Result:
     vn, _, _, fr = mains_range(v)
     dopts = strings.dropper_options(m, vn, fr, f(v, "mains_plus"), i, f(v, "diode_drop"))
     if not dopts:
-        from .errors import NoSolutionError
-
         raise NoSolutionError("mains_voltage", format_value(vn, "voltage"), "a mains peak above one module", "no series count conducts")
     frac = f(v, "bus_fraction")
     pick_d = min(dopts, key=lambda o: abs(o.fraction - frac))
@@ -306,8 +299,6 @@ def _dropper(v: V) -> Result:
         warnings.append("At low mains the crest does not reach the bus plus two diode drops: no current flows.")
     i_avg = drop.average_current(vn, fr, c, vbus, vd)
     if i_avg == 0:
-        from .errors import NoSolutionError
-
         raise NoSolutionError("bus_voltage", format_value(vbus, "voltage"),
                               f"a bus below the mains peak {format_value(math.sqrt(2) * vn, 'voltage')} less two diode drops",
                               "the bridge never conducts")  # fmt: skip
@@ -320,8 +311,6 @@ def _dropper(v: V) -> Result:
     if stock:
         need = c_need if c_need else c
         if need / stock > 1000:
-            from .errors import InputError
-
             raise InputError("stock_capacitance", format_value(stock, "capacitance"),
                              f"at least 1/1000 of the {format_value(need, 'capacitance')} needed")  # fmt: skip
         bank = float(max(1, math.ceil(need / stock - 1e-9)))
@@ -415,8 +404,6 @@ def _ripple(v: V) -> Result:
     s, p = int(f(v, "series")), int(f(v, "parallel"))
     r_string = s * f(v, "r_dynamic") + f(v, "ballast")
     if r_string <= 0:
-        from .errors import InputError
-
         raise InputError("r_dynamic", format_value(f(v, "r_dynamic"), "resistance"),
                          "a module Rd or a ballast above 0 Ω (with neither, the current ripple is unbounded)")  # fmt: skip
     di = rip.current_ripple(pp, r_string, p)
@@ -590,8 +577,6 @@ CALCULATORS: dict[str, Calculator] = {c.name: c for c in (DROPPER, STRING, RIPPL
 
 
 def get(name: str) -> Calculator:
-    from .errors import InputError
-
     try:
         return CALCULATORS[name]
     except KeyError:
