@@ -126,7 +126,7 @@ def precache_list(site_dir: Path) -> list[str]:
         for f in files:
             p = Path(root) / f
             rel = p.relative_to(site_dir).as_posix()
-            if rel in ("sw.js",) or rel.endswith((".map", ".gz")) or (rel.startswith("engine/") and f.endswith(".json") and f != "pyodide-lock.json"):
+            if rel == "sw.js" or rel.endswith((".map", ".gz")):
                 continue
             out.append(rel)
     return sorted(out)
