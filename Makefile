@@ -49,6 +49,7 @@ serve: build
 
 lint: $(DEPS)
 	$(BIN)/ruff check calc lampbook tests bench
+	$(BIN)/ruff format --check calc lampbook tests bench
 	$(BIN)/mypy
 
 test: $(DEPS) $(NODE) $(SYSTEM) $(WHEELS) lint

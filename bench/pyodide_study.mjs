@@ -14,9 +14,9 @@ for (const d of designs) {
   py.globals.set("toml_text", readFileSync(d, "utf8"));
   const r = py.runPython(`
 import time, json
-from lampcalc.design import parse_design
-from lampcalc.tolerance import study
-from lampcalc.steady import solve
+from lampcalc.fixture.design import parse_design
+from lampcalc.fixture.tolerance import study
+from lampcalc.circuit.steady import solve
 d = parse_design(toml_text)
 best = 1e9
 for _ in range(3):

@@ -25,7 +25,7 @@ sys.path.insert(0, str(ROOT / "tests"))
 
 from lampcalc.api import compute  # noqa: E402
 from lampcalc.calculators import CALCULATORS  # noqa: E402
-from lampcalc.steady import solve  # noqa: E402
+from lampcalc.circuit.steady import solve  # noqa: E402
 
 
 def per_call(fn, repeat: int = 7, number: int | None = None) -> float:  # type: ignore[no-untyped-def]
@@ -61,9 +61,18 @@ def bench_solver() -> list[dict[str, object]]:
         t = per_call(lambda c=c: solve(c), repeat=5)
         periods = 120 if c.smoothing >= 1e-3 or not c.strings else 60
         ref = run(c, periods=periods)
-        out.append({"design": name, "solve_ms": t * 1e3, "steps": st.steps, "newton_iterations": st.iterations,
-                    "ngspice_s": ref.seconds, "ngspice_periods": ref.periods, "ngspice_attempts": ref.attempts,
-                    "ratio": ref.seconds / t})  # fmt: skip
+        out.append(
+            {
+                "design": name,
+                "solve_ms": t * 1e3,
+                "steps": st.steps,
+                "newton_iterations": st.iterations,
+                "ngspice_s": ref.seconds,
+                "ngspice_periods": ref.periods,
+                "ngspice_attempts": ref.attempts,
+                "ratio": ref.seconds / t,
+            }
+        )
     return out
 
 
@@ -96,10 +105,15 @@ def build_site(folder: Path, compile_stdlib: bool) -> float:
     from sites import build
 
     shutil.copytree(ROOT / "docs", folder / "docs")
-    y = (ROOT / "mkdocs.yml").read_text().replace(
-        "  - lampbook:\n",
-        f"  - lampbook:\n      runtime: {ROOT / 'node_modules' / 'pyodide'}\n      cache_dir: {ROOT / '.cache' / 'lampbook'}\n"
-        f"      compile_stdlib: {'true' if compile_stdlib else 'false'}\n",
+    y = (
+        (ROOT / "mkdocs.yml")
+        .read_text()
+        .replace(
+            "  - lampbook:\n",
+            f"  - lampbook:\n      runtime: {ROOT / 'node_modules' / 'pyodide'}\n"
+            f"      cache_dir: {ROOT / '.cache' / 'lampbook'}\n"
+            f"      compile_stdlib: {'true' if compile_stdlib else 'false'}\n",
+        )
     )
     (folder / "mkdocs.yml").write_text(y)
     t0 = time.perf_counter()
@@ -145,9 +159,13 @@ def bench_browser() -> dict[str, object]:
             srv.close()
             key = "compiled_stdlib" if compiled else "source_stdlib"
             res[key] = {
-                visit: {k: statistics.median(r[k] for r in rows[visit]) for k in ("fcp", "ready", "live")} for visit in rows
-            } | {"first_visit_bytes": statistics.median(first_bytes), "build_s": build_s,
-                 "site_bytes": sum(f.stat().st_size for f in (folder / "site").rglob("*") if f.is_file())}  # fmt: skip
+                visit: {k: statistics.median(r[k] for r in rows[visit]) for k in ("fcp", "ready", "live")}
+                for visit in rows
+            } | {
+                "first_visit_bytes": statistics.median(first_bytes),
+                "build_s": build_s,
+                "site_bytes": sum(f.stat().st_size for f in (folder / "site").rglob("*") if f.is_file()),
+            }
         browser.close()
     c, s = res["compiled_stdlib"], res["source_stdlib"]  # type: ignore[index]
     res["ready_ratio_source_over_compiled"] = {v: s[v]["ready"] / c[v]["ready"] for v in ("cold", "warm")}  # type: ignore[index]
@@ -160,16 +178,26 @@ def bench_pyodide_study() -> dict[str, object]:
     with tempfile.TemporaryDirectory() as d:
         wheel = build_wheel(Path(d))
         designs = [str(p) for p in sorted((ROOT / "docs" / "designs").glob("*.toml")) if p.stem != "unsafe-demo"]
-        r = subprocess.run(["node", str(ROOT / "bench" / "pyodide_study.mjs"), str(ROOT / "node_modules" / "pyodide"), str(wheel), *designs],
-                           capture_output=True, text=True, timeout=900)  # fmt: skip
+        r = subprocess.run(
+            [
+                "node",
+                str(ROOT / "bench" / "pyodide_study.mjs"),
+                str(ROOT / "node_modules" / "pyodide"),
+                str(wheel),
+                *designs,
+            ],
+            capture_output=True,
+            text=True,
+            timeout=900,
+        )
         if r.returncode:
             raise SystemExit(r.stderr[-2000:])
         return json.loads(r.stdout.strip().splitlines()[-1])
 
 
 def bench_native_study() -> dict[str, float]:
-    from lampcalc.design import parse_design
-    from lampcalc.tolerance import study
+    from lampcalc.fixture.design import parse_design
+    from lampcalc.fixture.tolerance import study
 
     out = {}
     for p in sorted((ROOT / "docs" / "designs").glob("*.toml")):
@@ -187,37 +215,85 @@ def main() -> None:
     native = bench_native_study()
     solver = bench_solver()
     browser = bench_browser()
-    data = {"machine": {"python": sys.version.split()[0], "cpus": os.cpu_count()}, "calculators": calcs, "solver": solver, "browser": browser,
-            "study_pyodide": studies, "study_native_s": native}  # fmt: skip
+    data = {
+        "machine": {"python": sys.version.split()[0], "cpus": os.cpu_count()},
+        "calculators": calcs,
+        "solver": solver,
+        "browser": browser,
+        "study_pyodide": studies,
+        "study_native_s": native,
+    }
     (ROOT / "bench" / "results.json").write_text(json.dumps(data, indent=1, sort_keys=True))
-    lines = ["# Benchmark results", "", f"Written by `make bench` ({time.strftime('%Y-%m-%d')}, {time.time() - t0:.0f} s run, "
-             f"Python {data['machine']['python']}, {data['machine']['cpus']} cores).", "",
-             "## Closed-form calculators (CPython, default inputs)", "", "| calculator | per call |", "|---|---|"]  # fmt: skip
+    lines = [
+        "# Benchmark results",
+        "",
+        f"Written by `make bench` ({time.strftime('%Y-%m-%d')}, {time.time() - t0:.0f} s run, "
+        f"Python {data['machine']['python']}, {data['machine']['cpus']} cores).",
+        "",
+        "## Closed-form calculators (CPython, default inputs)",
+        "",
+        "| calculator | per call |",
+        "|---|---|",
+    ]
     lines += [f"| {c['calculator']} | {c['per_call_us']:.0f} µs |" for c in calcs]
-    lines += ["", "## Steady-state solver beside ngspice (same circuit, same run)", "",
-              "ngspice starts from the same closed-form estimate and runs until the last two periods are kept; its time includes any",
-              "retry its step control needed (looser tolerance, then from its own operating point).", "",
-              "| design | solve | steps | Newton iterations | ngspice | periods simulated | ngspice runs | ngspice / lampbook |",
-              "|---|---|---|---|---|---|---|---|"]  # fmt: skip
-    lines += [f"| {s['design']} | {s['solve_ms']:.1f} ms | {s['steps']} | {s['newton_iterations']} | {s['ngspice_s']:.2f} s | "
-              f"{s['ngspice_periods']} | {s['ngspice_attempts']} | {s['ratio']:.0f}× |" for s in solver]  # fmt: skip
-    lines += ["", "## Tolerance study, 1,000 Monte Carlo samples (reduced model, 25 + 12 exact solves)", "",
-              "| design | Pyodide on Node | CPython | one steady state in Pyodide | reduced-model error |", "|---|---|---|---|---|"]  # fmt: skip
+    lines += [
+        "",
+        "## Steady-state solver beside ngspice (same circuit, same run)",
+        "",
+        (
+            "ngspice starts from the same closed-form estimate and runs until the last two periods are kept; "
+            "its time includes any"
+        ),
+        "retry its step control needed (looser tolerance, then from its own operating point).",
+        "",
+        (
+            "| design | solve | steps | Newton iterations | ngspice | periods simulated | "
+            "ngspice runs | ngspice / lampbook |"
+        ),
+        "|---|---|---|---|---|---|---|---|",
+    ]
+    lines += [
+        f"| {s['design']} | {s['solve_ms']:.1f} ms | {s['steps']} | {s['newton_iterations']} | "
+        f"{s['ngspice_s']:.2f} s | {s['ngspice_periods']} | {s['ngspice_attempts']} | {s['ratio']:.0f}× |"
+        for s in solver
+    ]
+    lines += [
+        "",
+        "## Tolerance study, 1,000 Monte Carlo samples (reduced model, 25 + 12 exact solves)",
+        "",
+        "| design | Pyodide on Node | CPython | one steady state in Pyodide | reduced-model error |",
+        "|---|---|---|---|---|",
+    ]
     for name, st in studies.items():  # type: ignore[union-attr]
         solve_txt = f"{st['solve_s'] * 1e3:.1f} ms" if st["solve_s"] is not None else "— (CV design, closed form)"
-        lines.append(f"| {name} | {st['study_s']:.2f} s | {native[name]:.2f} s | {solve_txt} | {st['max_relative_error']:.2e} |")
-    lines += ["", "## Handbook in Chromium (dropper page, medians of 3, ms from navigation start)", "",
-              "| standard library | visit | first paint (prerendered answer) | engine ready | first live result |", "|---|---|---|---|---|"]  # fmt: skip
+        lines.append(
+            f"| {name} | {st['study_s']:.2f} s | {native[name]:.2f} s | {solve_txt} | {st['max_relative_error']:.2e} |"
+        )
+    lines += [
+        "",
+        "## Handbook in Chromium (dropper page, medians of 3, ms from navigation start)",
+        "",
+        "| standard library | visit | first paint (prerendered answer) | engine ready | first live result |",
+        "|---|---|---|---|---|",
+    ]
     for key in ("compiled_stdlib", "source_stdlib"):
         b = browser[key]  # type: ignore[index]
         for v in ("cold", "warm"):
-            lines.append(f"| {key.split('_')[0]} | {v} | {b[v]['fcp']:.0f} | {b[v]['ready']:.0f} | {b[v]['live']:.0f} |")
+            lines.append(
+                f"| {key.split('_')[0]} | {v} | {b[v]['fcp']:.0f} | {b[v]['ready']:.0f} | {b[v]['live']:.0f} |"
+            )
     r = browser["ready_ratio_source_over_compiled"]  # type: ignore[index]
     c = browser["compiled_stdlib"]  # type: ignore[index]
-    lines += ["", f"Engine-ready time, source stdlib / compiled stdlib: cold {r['cold']:.2f}×, warm {r['warm']:.2f}×.", "",
-              f"First visit (page plus the service worker's precache of the whole site): {c['first_visit_bytes'] / 1e6:.1f} MB sent (the 9.6 MB wasm arrives twice: the engine streams it past the HTTP cache, so the precache cannot revalidate it); "
-              f"site size {c['site_bytes'] / 1e6:.1f} MB. Build time {c['build_s']:.1f} s (compiled stdlib from the cache), "
-              f"{browser['source_stdlib']['build_s']:.1f} s without compiling."]  # type: ignore[index]  # fmt: skip
+    lines += [
+        "",
+        f"Engine-ready time, source stdlib / compiled stdlib: cold {r['cold']:.2f}×, warm {r['warm']:.2f}×.",
+        "",
+        "First visit (page plus the service worker's precache of the whole site): "
+        f"{c['first_visit_bytes'] / 1e6:.1f} MB sent (the 9.6 MB wasm arrives twice: "
+        "the engine streams it past the HTTP cache, so the precache cannot revalidate it); "
+        f"site size {c['site_bytes'] / 1e6:.1f} MB. Build time {c['build_s']:.1f} s (compiled stdlib from the cache), "
+        f"{browser['source_stdlib']['build_s']:.1f} s without compiling.",
+    ]  # type: ignore[index]
     (ROOT / "bench" / "RESULTS.md").write_text("\n".join(lines) + "\n")
     print("\n".join(lines))
 

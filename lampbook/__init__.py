@@ -3,4 +3,6 @@ bundler). It imports the core, never the other way round."""
 
 from __future__ import annotations
 
-__version__ = "0.1.0"
+from lampcalc import __version__
+
+__all__ = ["__version__"]

@@ -60,7 +60,11 @@ def parse_block(index: int, body: str) -> Block:
     ans = compute(calc, inputs)
     if not ans["ok"]:
         e = ans["errors"][0]
-        raise BlockError(index, e["field"] or "inputs", f"got {e['value']}; expected {e['expected']}" if e.get("expected") else e["message"])
+        raise BlockError(
+            index,
+            e["field"] or "inputs",
+            f"got {e['value']}; expected {e['expected']}" if e.get("expected") else e["message"],
+        )
     return Block(index, calc, inputs, locked, title)
 
 
@@ -88,42 +92,72 @@ def render(block: Block, safety_url: str | None) -> str:
             presets = region_presets()
             opts = p.choices if p.dim == "choice" else (*presets, "custom")
             label = {k: str(v["label"]) for k, v in presets.items()} if p.dim == "region" else {}
-            ctl = f"<select {attrs}>" + "".join(
-                f'<option value="{_esc(o)}"{" selected" if o == value else ""}>{_esc(label.get(o, o))}</option>' for o in opts
-            ) + "</select>"
+            ctl = (
+                f"<select {attrs}>"
+                + "".join(
+                    f'<option value="{_esc(o)}"{" selected" if o == value else ""}>{_esc(label.get(o, o))}</option>'
+                    for o in opts
+                )
+                + "</select>"
+            )
         else:
-            ph = "from preset" if p.name in ("mains_voltage", "frequency", "mains_tolerance") else ("optional" if p.optional else "")
-            ctl = f'<input type="text" inputmode="text" autocomplete="off" spellcheck="false" {attrs} value="{_esc(value)}" placeholder="{ph}">'
+            ph = (
+                "from preset"
+                if p.name in ("mains_voltage", "frequency", "mains_tolerance")
+                else ("optional" if p.optional else "")
+            )
+            ctl = (
+                '<input type="text" inputmode="text" autocomplete="off" spellcheck="false" '
+                f'{attrs} value="{_esc(value)}" placeholder="{ph}">'
+            )
         modes = f' data-modes="{_esc(" ".join(p.modes))}"' if p.modes else ""
         rows.append(
-            f'<div class="lb-field"{modes}{" hidden" if hidden else ""}><label for="{bid}-{_esc(p.name)}">{_esc(p.label)}</label>'
+            f'<div class="lb-field"{modes}{" hidden" if hidden else ""}>'
+            f'<label for="{bid}-{_esc(p.name)}">{_esc(p.label)}</label>'
             f'{ctl}<small class="lb-help">{_esc(p.help)}</small><small class="lb-err" role="alert"></small></div>'
         )
     outs = []
     for o in calc.outputs:
         v = ans["values"].get(o.name)
         shown = ans["display"][o.name]
-        outs.append(f'<tr data-out="{_esc(o.name)}"{" hidden" if v is None else ""}><th>{_esc(o.label)}</th><td>{_esc(shown)}</td></tr>')
+        outs.append(
+            f'<tr data-out="{_esc(o.name)}"{" hidden" if v is None else ""}>'
+            f"<th>{_esc(o.label)}</th><td>{_esc(shown)}</td></tr>"
+        )
     has_imperial = any(p.imperial for p in calc.params)
     caution = ""
     if calc.mains or calc.mains_modes:
         link = f' <a href="{_esc(safety_url)}">Read the safety page.</a>' if safety_url else ""
         when = "" if calc.mains else f" (when {calc.mode} is {' or '.join(calc.mains_modes)})"
-        caution = (f'<p class="lb-caution"><strong>Mains{_esc(when)}:</strong> no isolation, stored charge. '
-                   f"Local codes and licensed practice decide.{link}</p>")  # fmt: skip
+        caution = (
+            f'<p class="lb-caution"><strong>Mains{_esc(when)}:</strong> no isolation, stored charge. '
+            f"Local codes and licensed practice decide.{link}</p>"
+        )
     title = block.title or calc.title
-    payload = json.dumps({"id": bid, "calculator": calc.name, "declaration": desc, "answer": ans}, sort_keys=True, ensure_ascii=False)
+    payload = json.dumps(
+        {"id": bid, "calculator": calc.name, "declaration": desc, "answer": ans},
+        sort_keys=True,
+        ensure_ascii=False,
+    )
     payload = payload.replace("</", "<\\/")
     return (
         f'<div class="lb-calc" id="{bid}" data-calculator="{_esc(calc.name)}">\n'
-        f'<div class="lb-head"><h3 class="lb-title">{_esc(title)}</h3><span class="lb-engine" aria-live="polite">answers computed at build time</span></div>\n'
+        f'<div class="lb-head"><h3 class="lb-title">{_esc(title)}</h3>'
+        '<span class="lb-engine" aria-live="polite">answers computed at build time</span></div>\n'
         f'<p class="lb-summary">{_esc(calc.summary)}</p>\n'
         f'<form class="lb-form" autocomplete="off" onsubmit="return false">{"".join(rows)}'
-        + ('<div class="lb-tools"><button type="button" class="lb-units" data-system="metric">Imperial units</button></div>' if has_imperial else "")
+        + (
+            '<div class="lb-tools"><button type="button" class="lb-units" data-system="metric">'
+            "Imperial units</button></div>"
+            if has_imperial
+            else ""
+        )
         + "</form>\n"
         f'<div class="lb-result"><table class="lb-out"><tbody>{"".join(outs)}</tbody></table>'
-        f'<div class="lb-rows"></div><div class="lb-plot"></div><ul class="lb-warn">{"".join(f"<li>{_esc(w)}</li>" for w in ans["warnings"])}</ul>'
-        f'<details class="lb-notes"><summary>How this is worked out</summary><ul>{"".join(f"<li>{_esc(n)}</li>" for n in ans["notes"])}</ul></details>'
+        '<div class="lb-rows"></div><div class="lb-plot"></div>'
+        f'<ul class="lb-warn">{"".join(f"<li>{_esc(w)}</li>" for w in ans["warnings"])}</ul>'
+        '<details class="lb-notes"><summary>How this is worked out</summary>'
+        f"<ul>{''.join(f'<li>{_esc(n)}</li>' for n in ans['notes'])}</ul></details>"
         f'<p class="lb-share"><a class="lb-link" href="?lb={bid}#{bid}">Link to these inputs</a></p></div>\n'
         f"{caution}\n"
         f'<script type="application/json" class="lb-data">{payload}</script>\n'
@@ -132,7 +166,7 @@ def render(block: Block, safety_url: str | None) -> str:
 
 
 def render_table(index: int, body: str) -> str:
-    from lampcalc.tables import TABLES
+    from lampcalc.present.tables import TABLES
 
     opts = {}
     for raw in body.splitlines():
@@ -148,9 +182,13 @@ def render_table(index: int, body: str) -> str:
     head = "".join(f"<th>{_esc(h)}</th>" for h in t.headers)
     body_html = "".join("<tr>" + "".join(f"<td>{_esc(c)}</td>" for c in r) + "</tr>" for r in t.rows)
     src = "".join(f"<li>{_esc(x)}</li>" for x in t.sources)
-    return (f'<div class="lb-reftable" data-table="{_esc(name)}"><p class="lb-tabletitle"><strong>{_esc(t.title)}</strong></p>'
-            f'<div class="lb-scroll"><table class="lb-table"><thead><tr>{head}</tr></thead><tbody>{body_html}</tbody></table></div>'
-            f'<ul class="lb-sources">{src}</ul></div>')  # fmt: skip
+    return (
+        f'<div class="lb-reftable" data-table="{_esc(name)}">'
+        f'<p class="lb-tabletitle"><strong>{_esc(t.title)}</strong></p>'
+        f'<div class="lb-scroll"><table class="lb-table"><thead><tr>{head}</tr></thead>'
+        f"<tbody>{body_html}</tbody></table></div>"
+        f'<ul class="lb-sources">{src}</ul></div>'
+    )
 
 
 OPEN_DESIGN = (

@@ -13,6 +13,8 @@ import sys
 from collections.abc import Sequence
 from typing import Any, NoReturn
 
+from . import __version__
+
 
 class _Parser(argparse.ArgumentParser):
     def error(self, message: str) -> NoReturn:
@@ -33,18 +35,23 @@ def _add_calculators(sub: Any) -> None:
             if prm.help:
                 bits.append(prm.help)
             if prm.dim in ("choice", "region"):
-                from lampcalc.regions import PRESETS
+                from lampcalc.quantities.regions import PRESETS
 
                 choices = prm.choices if prm.dim == "choice" else (*PRESETS, "custom")
                 bits.append("One of: " + ", ".join(choices) + ".")
             elif prm.dim not in ("text", "count"):
-                from lampcalc.units import dimension
+                from lampcalc.quantities.units import dimension
 
                 bits.append(f"A {prm.dim} such as '{dimension(prm.dim).example}'.")
             if prm.modes:
                 bits.append(f"For {calc.mode} {'/'.join(prm.modes)}.")
             bits.append(f"Default: {prm.default}." if prm.default is not None else "Optional.")
-            p.add_argument(_option(prm.name), dest=prm.name, metavar=prm.dim.upper(), help=" ".join(bits).replace("%", "%%"))
+            p.add_argument(
+                _option(prm.name),
+                dest=prm.name,
+                metavar=prm.dim.upper(),
+                help=" ".join(bits).replace("%", "%%"),
+            )
         p.add_argument("--json", action="store_true", help="print one JSON object instead of the table")
         p.set_defaults(_run=_run_calculator, _calc=calc.name)
 
@@ -83,6 +90,7 @@ def build_parser() -> argparse.ArgumentParser:
         description="Calculators for mains-powered LED fixtures built from loose modules. "
         "Values take units: '22 uF', '230 V', '18 AWG', '3.5 ft'.",
     )
+    parser.add_argument("--version", action="version", version=f"lampbook {__version__}")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
     _add_calculators(sub)
     from . import commands

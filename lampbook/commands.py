@@ -85,18 +85,30 @@ def _pyodide() -> str:
 
 
 def add(sub: Any) -> None:
-    p = sub.add_parser("check", help="solve a fixture design at nominal, low and high mains",
-                       description="Solve a fixture design file (TOML) at nominal mains and at both ends of its tolerance.")  # fmt: skip
+    p = sub.add_parser(
+        "check",
+        help="solve a fixture design at nominal, low and high mains",
+        description="Solve a fixture design file (TOML) at nominal mains and at both ends of its tolerance.",
+    )
     p.add_argument("design", metavar="DESIGN.toml")
     p.add_argument("--json", action="store_true", help="print one JSON object")
     p.add_argument("--waveforms", action="store_true", help="include the nominal waveforms in the JSON")
     p.set_defaults(_run=run_check)
-    p = sub.add_parser("sheet", help="write the build sheet of a fixture design as a Markdown page",
-                       description="Write the build sheet of a fixture design (operating table, checks, bill of materials, wiring, schematic).")  # fmt: skip
+    p = sub.add_parser(
+        "sheet",
+        help="write the build sheet of a fixture design as a Markdown page",
+        description=(
+            "Write the build sheet of a fixture design (operating table, checks, bill of materials, wiring, schematic)."
+        ),
+    )
     p.add_argument("design", metavar="DESIGN.toml")
     p.add_argument("-o", "--output", metavar="PAGE.md", help="where to write the page (default: standard output)")
     p.set_defaults(_run=run_sheet)
-    p = sub.add_parser("new", help="start a handbook of your own", description="Scaffold a handbook: mkdocs.yml with the plugin, a first page, a design folder.")
+    p = sub.add_parser(
+        "new",
+        help="start a handbook of your own",
+        description="Scaffold a handbook: mkdocs.yml with the plugin, a first page, a design folder.",
+    )
     p.add_argument("folder", metavar="FOLDER")
     p.add_argument("--name", default="Shop handbook", help="the handbook's title")
     p.set_defaults(_run=run_new)

@@ -5,8 +5,8 @@ from __future__ import annotations
 from collections.abc import Mapping
 from typing import Any
 
-from lampcalc.sheet import CV_ROWS, OPERATING_ROWS, cell
-from lampcalc.units import format_value
+from lampcalc.present.sheet import CV_ROWS, OPERATING_ROWS, cell
+from lampcalc.quantities.units import format_value
 
 from .report import bullets, table
 
@@ -17,17 +17,35 @@ def check_report(ans: Mapping[str, Any]) -> str:
     rows = CV_ROWS if cv else OPERATING_ROWS
     label = "supply" if cv else "mains"
     parts = [title, "=" * len(title)]
-    parts.append(table(["", f"low {label}", "nominal", f"high {label}"],
-                       [[lab] + [cell(ans[c].get(key), kd) for c in ("low", "nominal", "high")] for lab, key, kd in rows]))  # fmt: skip
+    parts.append(
+        table(
+            ["", f"low {label}", "nominal", f"high {label}"],
+            [[lab] + [cell(ans[c].get(key), kd) for c in ("low", "nominal", "high")] for lab, key, kd in rows],
+        )
+    )
     parts.append("")
     for st in ans.get("steps", []):
-        parts.append(f"Step {format_value(st['capacitance_F'], 'capacitance')}: LED current {format_value(st['led_current_avg_A'], 'current')}")
+        parts.append(
+            f"Step {format_value(st['capacitance_F'], 'capacitance')}: "
+            f"LED current {format_value(st['led_current_avg_A'], 'current')}"
+        )
     if not cv:
-        parts.append(f"Switch-on peak at the crest, high mains: {format_value(ans['switch_on_peak_A'], 'current')}"
-                     f" ({format_value(ans['switch_on_energy_J'], 'energy')} in the series resistor)")  # fmt: skip
-        parts.append(f"Open load (every string open), high mains: bus climbs to {format_value(ans['open_load_bus_V'], 'voltage')}"
-                     f", time constant {format_value(ans['open_load_time_constant_s'], 'time')}")  # fmt: skip
-    parts += ["", table(["check", "status", "finding"], [[c["id"], c["status"].upper(), c["message"]] for c in ans["checks"]])]
+        parts.append(
+            f"Switch-on peak at the crest, high mains: {format_value(ans['switch_on_peak_A'], 'current')}"
+            f" ({format_value(ans['switch_on_energy_J'], 'energy')} in the series resistor)"
+        )
+        parts.append(
+            "Open load (every string open), high mains: "
+            f"bus climbs to {format_value(ans['open_load_bus_V'], 'voltage')}"
+            f", time constant {format_value(ans['open_load_time_constant_s'], 'time')}"
+        )
+    parts += [
+        "",
+        table(
+            ["check", "status", "finding"],
+            [[c["id"], c["status"].upper(), c["message"]] for c in ans["checks"]],
+        ),
+    ]
     parts.append(f"\n{ans['failed']} failed, {ans['warned']} warnings. Exit code 1 when any check fails.")
     parts += ["", bullets("CAUTION (mains):" if not cv else "CAUTION:", ans["cautions"])]
     return "\n".join(parts)

@@ -30,7 +30,9 @@ def answer(desc: Mapping[str, Any], ans: Mapping[str, Any]) -> str:
     """Text for a core answer (``lampcalc.schema.to_json``) given its
     declaration (``lampcalc.schema.describe``)."""
     parts = [desc["title"], "=" * len(desc["title"])]
-    pairs = [(o["label"], ans["display"][o["name"]]) for o in desc["outputs"] if ans["values"].get(o["name"]) is not None]
+    pairs = [
+        (o["label"], ans["display"][o["name"]]) for o in desc["outputs"] if ans["values"].get(o["name"]) is not None
+    ]
     w = max((len(a) for a, _ in pairs), default=0)
     parts.append("\n".join(f"{a.ljust(w)}  {b}" for a, b in pairs))
     cols = [c for c in desc["columns"] if any(r.get(c["name"]) is not None for r in ans["rows"])]
@@ -40,7 +42,11 @@ def answer(desc: Mapping[str, Any], ans: Mapping[str, Any]) -> str:
     from lampcalc.cautions import MAINS
 
     mains = list(ans["cautions"]) == list(MAINS)
-    for title, key in (("Warnings:", "warnings"), ("Notes:", "notes"), ("CAUTION (mains):" if mains else "CAUTION:", "cautions")):
+    for title, key in (
+        ("Warnings:", "warnings"),
+        ("Notes:", "notes"),
+        ("CAUTION (mains):" if mains else "CAUTION:", "cautions"),
+    ):
         block = bullets(title, ans[key])
         if block:
             parts += ["", block]

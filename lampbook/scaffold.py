@@ -104,5 +104,7 @@ def scaffold(folder: str, name: str) -> Path:
     (root / "mkdocs.yml").write_text(MKDOCS.format(name=name), encoding="utf-8")
     (root / "docs" / "index.md").write_text(INDEX.format(name=name), encoding="utf-8")
     (root / "docs" / "designs" / "first-fixture.toml").write_text(DESIGN, encoding="utf-8")
-    (root / "package.json").write_text(json.dumps({"name": "handbook", "private": True, "dependencies": {"pyodide": PYODIDE_VERSION}}, indent=2) + "\n")
+    (root / "package.json").write_text(
+        json.dumps({"name": "handbook", "private": True, "dependencies": {"pyodide": PYODIDE_VERSION}}, indent=2) + "\n"
+    )
     return root

@@ -40,8 +40,12 @@ def build(folder: Path, strict: bool = True) -> subprocess.CompletedProcess[str]
 
 
 class _Quiet(http.server.SimpleHTTPRequestHandler):
-    extensions_map = {**http.server.SimpleHTTPRequestHandler.extensions_map, ".wasm": "application/wasm", ".mjs": "text/javascript",
-                      ".webmanifest": "application/manifest+json"}  # fmt: skip
+    extensions_map = {
+        **http.server.SimpleHTTPRequestHandler.extensions_map,
+        ".wasm": "application/wasm",
+        ".mjs": "text/javascript",
+        ".webmanifest": "application/manifest+json",
+    }
 
     def log_message(self, *args: object) -> None:
         pass

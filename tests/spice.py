@@ -26,7 +26,7 @@ import time
 from dataclasses import dataclass
 
 import numpy as np
-from lampcalc.steady import Circuit, initial_state
+from lampcalc.circuit.steady import Circuit, initial_state
 
 NGSPICE = shutil.which("ngspice")
 #: Series resistance inside each near-ideal diode (taken off the resistor beside it, so the totals match):
@@ -65,12 +65,19 @@ def netlist(c: Circuit, periods: int, points_per_period: int = 4000) -> str:
         lines.append("Vnd b n 0")
     b = c.bridge
     if b.kind == "exponential":
-        vt_model = f".model DB D(IS={b.saturation_current:.6g} N={b.emission_coefficient:.6g} RS={max(b.resistance, 1e-6):.6g} CJO=10p)"
+        vt_model = (
+            f".model DB D(IS={b.saturation_current:.6g} N={b.emission_coefficient:.6g} "
+            f"RS={max(b.resistance, 1e-6):.6g} CJO=10p)"
+        )
         lines += ["D1 n p DB", "D2 0 p DB", "D3 m n DB", "D4 m 0 DB", vt_model]
     else:
         # each diode: ideal-ish junction + drop source + resistance
         for k, (an, ca) in enumerate((("n", "p"), ("0", "p"), ("m", "n"), ("m", "0")), start=1):
-            lines += [f"D{k} {an} j{k} DI", f"Vd{k} j{k} k{k} {b.drop:.9g}", f"Rd{k} k{k} {ca} {max(b.resistance - RS, 1e-6):.9g}"]
+            lines += [
+                f"D{k} {an} j{k} DI",
+                f"Vd{k} j{k} k{k} {b.drop:.9g}",
+                f"Rd{k} k{k} {ca} {max(b.resistance - RS, 1e-6):.9g}",
+            ]
         lines.append(f".model DI D(IS=1e-12 N=0.02 RS={RS} CJO=10p)")
     lines += ["Rgp p 0 1e9", "Rgm m 0 1e9", "Rgn n 0 1e9"]
     lines.append(f"Cs p x {c.smoothing:.9g} IC={vcs0:.9g}")
@@ -93,7 +100,10 @@ def netlist(c: Circuit, periods: int, points_per_period: int = 4000) -> str:
     tmax = T / points_per_period
     vecs = " ".join(["v(p,m)", "i(Vline)", "v(in)", "i(Vcs)", *led])
     lines += [
-        f".options reltol=1e-4 abstol=1e-9 vntol=1e-6 chgtol=1e-16 method=gear itl4=100 temp={b.temperature:.6g} tnom={b.temperature:.6g}",
+        (
+            ".options reltol=1e-4 abstol=1e-9 vntol=1e-6 chgtol=1e-16 method=gear itl4=100 "
+            f"temp={b.temperature:.6g} tnom={b.temperature:.6g}"
+        ),
         ".control",
         "set wr_singlescale",
         "set wr_vecnames",
@@ -117,7 +127,11 @@ def run(c: Circuit, periods: int = 60, points_per_period: int = 4000) -> SpiceRe
         text = netlist(c, periods, points_per_period)
         # ngspice's step control can give up on the sharp turn-on of stiff, high-current designs: retry with
         # a looser relative tolerance (the step stays bounded by T/points), then from its own t = 0 operating point
-        tries = [text, text.replace("reltol=1e-4", "reltol=1e-3"), netlist(c, 3 * periods, points_per_period).replace(" uic", "")]
+        tries = [
+            text,
+            text.replace("reltol=1e-4", "reltol=1e-3"),
+            netlist(c, 3 * periods, points_per_period).replace(" uic", ""),
+        ]
         n_try = 0
         for attempt in tries:
             n_try += 1

@@ -17,8 +17,15 @@ from sites import ROOT, Server, build
 pytestmark = pytest.mark.browser
 
 CHROMIUM = "/usr/bin/chromium"
-ARGS = ["--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking",
-        "--disable-component-update", "--disable-sync"]  # fmt: skip
+ARGS = [
+    "--no-sandbox",
+    "--disable-gpu",
+    "--disable-quic",
+    "--no-first-run",
+    "--disable-background-networking",
+    "--disable-component-update",
+    "--disable-sync",
+]
 ARTIFACTS = ROOT / "test-artifacts"
 
 
@@ -27,7 +34,11 @@ def demo(tmp_path_factory: pytest.TempPathFactory) -> Iterator[tuple[Path, Serve
     folder = tmp_path_factory.mktemp("demo")
     shutil.copytree(ROOT / "docs", folder / "docs")
     y = (ROOT / "mkdocs.yml").read_text() + "\n"
-    y = y.replace("  - lampbook:\n", f"  - lampbook:\n      runtime: {ROOT / 'node_modules' / 'pyodide'}\n      cache_dir: {ROOT / '.cache' / 'lampbook'}\n")
+    y = y.replace(
+        "  - lampbook:\n",
+        f"  - lampbook:\n      runtime: {ROOT / 'node_modules' / 'pyodide'}\n"
+        f"      cache_dir: {ROOT / '.cache' / 'lampbook'}\n",
+    )
     (folder / "mkdocs.yml").write_text(y)
     r = build(folder)
     assert r.returncode == 0, r.stderr
@@ -88,7 +99,9 @@ class Visit:
         self.offline_ready()
 
     def computed(self, box: str, before: int) -> None:
-        self.page.wait_for_function(f"Number(document.querySelector('#{box}').dataset.computed || 0) > {before}", timeout=30000)
+        self.page.wait_for_function(
+            f"Number(document.querySelector('#{box}').dataset.computed || 0) > {before}", timeout=30000
+        )
 
     def count(self, box: str) -> int:
         return int(self.page.evaluate(f"Number(document.querySelector('#{box}').dataset.computed || 0)"))
@@ -120,15 +133,29 @@ CASES = [
 
 def block_inputs(v: Visit, box: str) -> dict[str, str]:
     data = json.loads(v.page.locator(f"#{box} .lb-data").inner_text())
-    return {k: val for k, val in v.page.evaluate(
-        f"""Object.fromEntries([...document.querySelectorAll('#{box} .lb-form [name]')]
+    return (
+        {
+            k: val
+            for k, val in v.page.evaluate(
+                f"""Object.fromEntries([...document.querySelectorAll('#{box} .lb-form [name]')]
             .filter(e => !e.closest('.lb-field').hidden && e.value.trim() !== '').map(e => [e.name, e.value]))"""
-    ).items()} if data else {}
+            ).items()
+        }
+        if data
+        else {}
+    )
 
 
 @pytest.mark.parametrize(("path", "box", "calc", "change", "out"), CASES, ids=[c[1] for c in CASES])
-def test_calculator_computes_after_input_change(demo: tuple[Path, Server], browser: object, path: str, box: str, calc: str,
-                                                change: dict[str, str], out: str) -> None:  # fmt: skip
+def test_calculator_computes_after_input_change(
+    demo: tuple[Path, Server],
+    browser: object,
+    path: str,
+    box: str,
+    calc: str,
+    change: dict[str, str],
+    out: str,
+) -> None:
     v = Visit(browser, demo[1].url)
     v.open(path)
     v.ready()
@@ -162,7 +189,9 @@ def test_offline_after_one_visit(demo: tuple[Path, Server], browser: object) -> 
     v.page.reload()
     v.ready()
     v.set("lb-ripple-1", "capacitance", "1000 uF")
-    assert v.out("lb-ripple-1", "ripple_pp") == compute("ripple", block_inputs(v, "lb-ripple-1"))["display"]["ripple_pp"]
+    assert (
+        v.out("lb-ripple-1", "ripple_pp") == compute("ripple", block_inputs(v, "lb-ripple-1"))["display"]["ripple_pp"]
+    )
     # another page, never opened, from the precache
     v.open("calculators/wire/")
     v.ready()
@@ -187,7 +216,14 @@ def test_share_link_restores_inputs(demo: tuple[Path, Server], browser: object) 
 
 
 def test_phone_viewport_has_no_horizontal_scroll(demo: tuple[Path, Server], browser: object) -> None:
-    v = Visit(browser, demo[1].url, viewport={"width": 390, "height": 844}, device_scale_factor=2, is_mobile=True, has_touch=True)
+    v = Visit(
+        browser,
+        demo[1].url,
+        viewport={"width": 390, "height": 844},
+        device_scale_factor=2,
+        is_mobile=True,
+        has_touch=True,
+    )
     for path in ("calculators/dropper/", "calculators/strings/", "calculators/wire/"):
         v.open(path)
         v.ready()
@@ -230,9 +266,9 @@ def test_open_design_from_device(demo: tuple[Path, Server], browser: object) -> 
     v.page.wait_for_selector(".lb-open[data-live]")
     v.page.set_input_files(".lb-open-file", str(ROOT / "docs" / "designs" / "worklight-120.toml"))
     v.page.wait_for_selector(".lb-open-out .lb-verdict", timeout=90000)
-    from lampcalc.check import check
-    from lampcalc.design import parse_design
-    from lampcalc.sheet import cell
+    from lampcalc.fixture.check import check
+    from lampcalc.fixture.design import parse_design
+    from lampcalc.present.sheet import cell
 
     ans = check(parse_design((ROOT / "docs" / "designs" / "worklight-120.toml").read_text()))
     text = v.page.locator(".lb-open-out").inner_text()
@@ -263,12 +299,23 @@ def test_scaffolded_handbook_works_offline(tmp_path: Path, browser: object) -> N
     import sys
 
     folder = tmp_path / "mine"
-    r = subprocess.run([sys.executable, "-m", "lampbook.cli", "new", str(folder), "--name", "Bench book"], capture_output=True, text=True)
+    r = subprocess.run(
+        [sys.executable, "-m", "lampbook.cli", "new", str(folder), "--name", "Bench book"],
+        capture_output=True,
+        text=True,
+    )
     assert r.returncode == 0, r.stderr
     # what `npm install pyodide@VERSION` would put there: the same package this repository pins
     (folder / "node_modules").mkdir()
     (folder / "node_modules" / "pyodide").symlink_to(ROOT / "node_modules" / "pyodide")
-    y = (folder / "mkdocs.yml").read_text().replace("      designs: designs", f"      designs: designs\n      cache_dir: {ROOT / '.cache' / 'lampbook'}")
+    y = (
+        (folder / "mkdocs.yml")
+        .read_text()
+        .replace(
+            "      designs: designs",
+            f"      designs: designs\n      cache_dir: {ROOT / '.cache' / 'lampbook'}",
+        )
+    )
     (folder / "mkdocs.yml").write_text(y)
     r = build(folder)
     assert r.returncode == 0, r.stderr
@@ -315,11 +362,15 @@ def test_print_stylesheet_gives_a_clean_sheet(demo: tuple[Path, Server], browser
 
 
 def test_engine_timeout_is_shown(tmp_path: Path, browser: object) -> None:
-    # a server that sends .wasm with the wrong type makes Pyodide hang: the page must say so, keep the prerendered answer
+    # a server that sends .wasm with the wrong type makes Pyodide hang:
+    # the page must say so, keep the prerendered answer
     from sites import write_site
 
-    folder = write_site(tmp_path / "t", {"index.md": "# T\n\n```lampbook\ncalculator: preferred\n```\n"},
-                        extra="      load_timeout: 3\n")
+    folder = write_site(
+        tmp_path / "t",
+        {"index.md": "# T\n\n```lampbook\ncalculator: preferred\n```\n"},
+        extra="      load_timeout: 3\n",
+    )
     assert build(folder).returncode == 0
     srv = Server(folder / "site")
     try:

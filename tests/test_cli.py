@@ -14,7 +14,9 @@ DESIGNS = os.path.join(ROOT, "docs", "designs")
 
 
 def lampbook(*args: str) -> subprocess.CompletedProcess[str]:
-    return subprocess.run([sys.executable, "-m", "lampbook.cli", *args], capture_output=True, text=True, cwd=ROOT, timeout=120)
+    return subprocess.run(
+        [sys.executable, "-m", "lampbook.cli", *args], capture_output=True, text=True, cwd=ROOT, timeout=120
+    )
 
 
 @pytest.mark.parametrize("name", ["dropper", "string", "ripple", "wire", "module", "preferred", "mains"])
@@ -29,7 +31,18 @@ def test_every_calculator_prints_a_table_and_json(name: str) -> None:
 
 def test_dropper_answer_X12_and_cautions() -> None:
     # 120 V 60 Hz, 2.2 uF, 90 V string: 42.08 mA (references.md X12, arithmetic)
-    r = lampbook("dropper", "--region", "120-60", "--capacitance", "2.2 uF", "--bus-voltage", "90 V", "--diode-drop", "0 V", "--json")
+    r = lampbook(
+        "dropper",
+        "--region",
+        "120-60",
+        "--capacitance",
+        "2.2 uF",
+        "--bus-voltage",
+        "90 V",
+        "--diode-drop",
+        "0 V",
+        "--json",
+    )
     data = json.loads(r.stdout)
     assert data["values"]["led_current_avg"] == pytest.approx(0.04208, rel=1e-3)
     t = lampbook("dropper", "--region", "120-60")
@@ -37,7 +50,18 @@ def test_dropper_answer_X12_and_cautions() -> None:
 
 
 def test_wire_answer_VD3() -> None:
-    r = lampbook("wire", "--size", "18 AWG", "--length", "5 m", "--current", "2 A", "--supply-voltage", "12 V", "--json")
+    r = lampbook(
+        "wire",
+        "--size",
+        "18 AWG",
+        "--length",
+        "5 m",
+        "--current",
+        "2 A",
+        "--supply-voltage",
+        "12 V",
+        "--json",
+    )
     assert json.loads(r.stdout)["values"]["drop"] == pytest.approx(0.419, rel=1e-3)
 
 
@@ -47,8 +71,24 @@ def test_ripple_answer_RP4() -> None:
 
 
 def test_string_answer_L5() -> None:
-    r = lampbook("string", "--supply", "cv", "--supply-voltage", "12 V", "--supply-tolerance", "0 %", "--v0", "3 V", "--r-dynamic", "0 Ω",
-                 "--current", "20 mA", "--series", "3", "--json")  # fmt: skip
+    r = lampbook(
+        "string",
+        "--supply",
+        "cv",
+        "--supply-voltage",
+        "12 V",
+        "--supply-tolerance",
+        "0 %",
+        "--v0",
+        "3 V",
+        "--r-dynamic",
+        "0 Ω",
+        "--current",
+        "20 mA",
+        "--series",
+        "3",
+        "--json",
+    )
     assert json.loads(r.stdout)["values"]["ballast_exact"] == pytest.approx(150.0)
 
 
@@ -80,9 +120,21 @@ def test_check_json_shape() -> None:
     r = lampbook("check", os.path.join(DESIGNS, "panel-230.toml"), "--json")
     assert r.returncode in (0, 1), r.stderr
     data = json.loads(r.stdout)
-    keys = {"led_current_avg_A", "led_current_max_A", "string_current_avg_A", "bus_voltage_avg_V", "ripple_pp_V", "percent_flicker",
-            "flicker_index", "dropper_current_rms_A", "smoothing_ripple_current_rms_A", "input_power_W", "apparent_power_VA",
-            "power_factor", "led_power_W"}  # fmt: skip
+    keys = {
+        "led_current_avg_A",
+        "led_current_max_A",
+        "string_current_avg_A",
+        "bus_voltage_avg_V",
+        "ripple_pp_V",
+        "percent_flicker",
+        "flicker_index",
+        "dropper_current_rms_A",
+        "smoothing_ripple_current_rms_A",
+        "input_power_W",
+        "apparent_power_VA",
+        "power_factor",
+        "led_power_W",
+    }
     for corner in ("nominal", "low", "high"):
         assert keys <= set(data[corner])
     assert data["low"]["led_current_avg_A"] < data["nominal"]["led_current_avg_A"] < data["high"]["led_current_avg_A"]
@@ -94,7 +146,9 @@ def test_check_bad_design_names_key(tmp_path: object) -> None:
 
     p = pathlib.Path(str(tmp_path)) / "bad.toml"
     src = open(os.path.join(DESIGNS, "panel-230.toml")).read()
-    p.write_text(src.replace('capacitance = "1000 uF"', 'capacitance = "1000 uH"').replace("[array]", "[array]\ncolour = 1"))
+    p.write_text(
+        src.replace('capacitance = "1000 uF"', 'capacitance = "1000 uH"').replace("[array]", "[array]\ncolour = 1")
+    )
     r = lampbook("check", str(p))
     assert r.returncode == 2
     assert "smoothing.capacitance" in r.stderr and "array.colour" in r.stderr

@@ -7,14 +7,14 @@ import math
 import pytest
 from hypothesis import example, given, settings
 from hypothesis import strategies as st
-from lampcalc import dropper
 from lampcalc.api import compute, handle
 from lampcalc.calculators import CALCULATORS
 from lampcalc.errors import CalcError, InputError
-from lampcalc.led import LedModule
+from lampcalc.physics import dropper
+from lampcalc.physics.led import LedModule
+from lampcalc.physics.wire import size_from_area
+from lampcalc.quantities.units import awg_area, awg_number, format_value
 from lampcalc.schema import evaluate
-from lampcalc.units import awg_area, awg_number, format_value
-from lampcalc.wire import size_from_area
 
 
 def test_every_calculator_answers_its_defaults() -> None:
@@ -114,20 +114,28 @@ def test_string_dropper_sensitivity_rises_with_bus() -> None:
 
 
 def test_wire_smallest_size_meets_limit() -> None:
-    r = evaluate(CALCULATORS["wire"], {"size": "18 AWG", "length": "10 m", "current": "2 A", "supply_voltage": "12 V", "drop_limit": "3 %"})
+    r = evaluate(
+        CALCULATORS["wire"],
+        {"size": "18 AWG", "length": "10 m", "current": "2 A", "supply_voltage": "12 V", "drop_limit": "3 %"},
+    )
     best = str(r.values["smallest_size"])
     n = awg_number(best)
     assert n is not None
     r2 = evaluate(CALCULATORS["wire"], {"size": best, "length": "10 m", "current": "2 A", "supply_voltage": "12 V"})
     assert float(r2.values["drop_fraction"]) <= 0.03  # type: ignore[arg-type]
-    r3 = evaluate(CALCULATORS["wire"], {"size": f"{n + 1} AWG", "length": "10 m", "current": "2 A", "supply_voltage": "12 V"})
+    r3 = evaluate(
+        CALCULATORS["wire"],
+        {"size": f"{n + 1} AWG", "length": "10 m", "current": "2 A", "supply_voltage": "12 V"},
+    )
     assert float(r3.values["drop_fraction"]) > 0.03  # type: ignore[arg-type]
 
 
 def test_api_handle_json_round_trip() -> None:
     import json
 
-    out = json.loads(handle(json.dumps({"kind": "compute", "calculator": "ripple", "inputs": {"capacitance": "220 uF"}})))
+    out = json.loads(
+        handle(json.dumps({"kind": "compute", "calculator": "ripple", "inputs": {"capacitance": "220 uF"}}))
+    )
     assert out["ok"] and out["display"]["ripple_pp"].endswith("V")
     bad = json.loads(handle("not json"))
     assert not bad["ok"]
@@ -136,6 +144,7 @@ def test_api_handle_json_round_trip() -> None:
 
 
 # --- properties ----------------------------------------------------------------------
+
 
 @given(c1=st.floats(1e-8, 1e-4), k=st.floats(1.001, 10), v=st.floats(80, 280), bus=st.floats(0, 300))
 def test_more_capacitance_more_current(c1: float, k: float, v: float, bus: float) -> None:
@@ -149,7 +158,9 @@ def test_more_capacitance_more_current(c1: float, k: float, v: float, bus: float
 @given(v=st.floats(80, 280), c=st.floats(1e-8, 1e-4), bus=st.floats(0, 390))
 def test_capacitor_rms_at_least_average(v: float, c: float, bus: float) -> None:
     # the rms of |i| is never below its mean
-    assert dropper.capacitor_rms_current(v, 50, c, bus, 0.9) >= dropper.average_current(v, 50, c, bus, 0.9) * (1 - 1e-12)
+    assert dropper.capacitor_rms_current(v, 50, c, bus, 0.9) >= dropper.average_current(v, 50, c, bus, 0.9) * (
+        1 - 1e-12
+    )
 
 
 @given(n=st.integers(-3, 56))
@@ -161,7 +172,7 @@ def test_awg_diameter_round_trip(n: int) -> None:
 
 @given(vs=st.floats(5, 60), i=st.floats(1e-3, 1.0), v0=st.floats(1.5, 4.0), rd=st.floats(0, 5))
 def test_cv_power_in_equals_led_plus_ballast(vs: float, i: float, v0: float, rd: float) -> None:
-    from lampcalc.strings import cv_options
+    from lampcalc.physics.strings import cv_options
 
     m = LedModule(v0=v0, r_dynamic=rd)
     for o in cv_options(m, vs, 0.0, i, 25.0, 25.0, "E24", 0.5):
@@ -174,7 +185,7 @@ def _value_for(p: object, draw: st.DrawFn) -> object:
 
     assert isinstance(p, Param)
     if p.dim in ("choice", "region"):
-        from lampcalc.regions import PRESETS
+        from lampcalc.quantities.regions import PRESETS
 
         return draw(st.sampled_from(p.choices or tuple(PRESETS)))
     if p.dim == "text":
@@ -197,7 +208,9 @@ def calculator_inputs(draw: st.DrawFn) -> tuple[str, dict[str, object]]:
 
 @settings(max_examples=400, deadline=None)
 @given(calculator_inputs())
-def test_accepted_inputs_give_finite_results_rejected_raise_input_error(case: tuple[str, dict[str, object]]) -> None:
+def test_accepted_inputs_give_finite_results_rejected_raise_input_error(
+    case: tuple[str, dict[str, object]],
+) -> None:
     name, inputs = case
     try:
         r = evaluate(CALCULATORS[name], inputs)
@@ -209,7 +222,14 @@ def test_accepted_inputs_give_finite_results_rejected_raise_input_error(case: tu
 
 
 @settings(max_examples=200, deadline=None)
-@given(name=st.sampled_from(sorted(CALCULATORS)), junk=st.dictionaries(st.text(max_size=8), st.one_of(st.text(max_size=12), st.floats(), st.integers(), st.none()), max_size=4))
+@given(
+    name=st.sampled_from(sorted(CALCULATORS)),
+    junk=st.dictionaries(
+        st.text(max_size=8),
+        st.one_of(st.text(max_size=12), st.floats(), st.integers(), st.none()),
+        max_size=4,
+    ),
+)
 def test_junk_never_raises_other_exceptions(name: str, junk: dict[str, object]) -> None:
     ans = compute(name, junk)
     assert isinstance(ans["ok"], bool)

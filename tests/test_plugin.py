@@ -39,7 +39,9 @@ def site(tmp_path_factory: pytest.TempPathFactory) -> Path:
 
 
 def payloads(page: str) -> list[dict[str, object]]:
-    return [json.loads(m) for m in re.findall(r'<script type="application/json" class="lb-data">(.*?)</script>', page, re.S)]
+    return [
+        json.loads(m) for m in re.findall(r'<script type="application/json" class="lb-data">(.*?)</script>', page, re.S)
+    ]
 
 
 def test_forms_generated_from_declaration(site: Path) -> None:
@@ -65,7 +67,9 @@ def test_mains_blocks_link_the_safety_page(site: Path) -> None:
 
 
 def test_no_foreign_urls_fetched(site: Path) -> None:
-    pat = re.compile(r"""(?:src|href)\s*=\s*["'](?:https?:)?//|url\(\s*["']?(?:https?:)?//|import\s*\(?\s*["']https?://""")
+    pat = re.compile(
+        r"""(?:src|href)\s*=\s*["'](?:https?:)?//|url\(\s*["']?(?:https?:)?//|import\s*\(?\s*["']https?://"""
+    )
     for p in site.rglob("*"):
         if p.suffix in (".html", ".css", ".js", ".mjs", ".webmanifest", ".json") and p.is_file():
             text = p.read_text(errors="replace")
@@ -95,8 +99,14 @@ def test_service_worker_precaches_everything(site: Path) -> None:
     m = re.search(r"const PRECACHE = (\{.*?\});", sw)
     assert m
     pre = json.loads(m.group(1))
-    for must in ("index.html", "engine/pyodide.asm.wasm", "engine/pyodide-lock.json", "assets/lampbook/worker.js", "offline.html",
-                 "manifest.webmanifest"):  # fmt: skip
+    for must in (
+        "index.html",
+        "engine/pyodide.asm.wasm",
+        "engine/pyodide-lock.json",
+        "assets/lampbook/worker.js",
+        "offline.html",
+        "manifest.webmanifest",
+    ):
         assert must in pre["files"], must
     for f in pre["files"]:
         assert (site / f).is_file(), f
@@ -120,7 +130,10 @@ def test_cache_name_follows_content(tmp_path: Path) -> None:
     [
         ("calculator: toaster", "calculator block 1: calculator: got 'toaster'"),
         ("calculator: dropper\nflavour: 3", "calculator block 1: flavour: not an input of dropper"),
-        ("calculator: dropper\ncapacitance: 2.2", "calculator block 1: capacitance: got 2.2; expected a capacitance"),
+        (
+            "calculator: dropper\ncapacitance: 2.2",
+            "calculator block 1: capacitance: got 2.2; expected a capacitance",
+        ),
         ("region: 230-50", "calculator block 1: calculator: missing"),
         ("calculator: dropper\njust words", "calculator block 1: line 2"),
     ],
@@ -148,7 +161,11 @@ def test_design_folder_becomes_sheet_pages(tmp_path: Path) -> None:
     (folder / "docs" / "designs").mkdir()
     for name in ("panel-230.toml", "panel-24v.toml"):
         (folder / "docs" / "designs" / name).write_text((ROOT / "docs" / "designs" / name).read_text())
-    y = (folder / "mkdocs.yml").read_text().replace("      engine: false", "      engine: false\n      designs: designs")
+    y = (
+        (folder / "mkdocs.yml")
+        .read_text()
+        .replace("      engine: false", "      engine: false\n      designs: designs")
+    )
     (folder / "mkdocs.yml").write_text(y)
     r = build(folder, strict=False)
     assert r.returncode == 0, r.stderr
@@ -156,13 +173,15 @@ def test_design_folder_becomes_sheet_pages(tmp_path: Path) -> None:
     assert "Operating table" in page and "Bill of materials" in page and "<svg" in page and "dropper.ac_rating" in page
     assert (folder / "site" / "designs" / "panel-24v" / "index.html").is_file()
     # a broken design fails the build, naming the file and the key
-    (folder / "docs" / "designs" / "broken.toml").write_text('name = "b"\n[supply]\nkind = "cv"\nvoltage = "24"\n[module]\n')
+    (folder / "docs" / "designs" / "broken.toml").write_text(
+        'name = "b"\n[supply]\nkind = "cv"\nvoltage = "24"\n[module]\n'
+    )
     r = build(folder, strict=False)
     assert r.returncode != 0 and "designs/broken.toml" in r.stderr and "supply.voltage" in r.stderr
 
 
 def test_reference_tables_equal_core(tmp_path: Path) -> None:
-    from lampcalc.tables import TABLES
+    from lampcalc.present.tables import TABLES
 
     body = "".join(f"```lampbook-table\ntable: {name}\n```\n\n" for name in TABLES)
     folder = write_site(tmp_path, {"index.md": "# Tables\n\n" + body}, engine=False)

@@ -26,10 +26,19 @@ def test_core_suite_inside_pyodide(tmp_path: Path) -> None:
     assert any(WHEELS.glob("pytest-*.whl")), "pytest wheels missing: `make test` downloads them"
     wheel = build_wheel(tmp_path)
     r = subprocess.run(
-        [node, str(ROOT / "tests" / "pyodide" / "run.mjs"), str(ROOT / "node_modules" / "pyodide"), str(WHEELS), str(wheel),
-         str(ROOT / "tests"), *FILES],
-        capture_output=True, text=True, timeout=900,
-    )  # fmt: skip
+        [
+            node,
+            str(ROOT / "tests" / "pyodide" / "run.mjs"),
+            str(ROOT / "node_modules" / "pyodide"),
+            str(WHEELS),
+            str(wheel),
+            str(ROOT / "tests"),
+            *FILES,
+        ],
+        capture_output=True,
+        text=True,
+        timeout=900,
+    )
     out = r.stdout + r.stderr
     assert "emscripten" in out, out[-3000:]
     m = re.search(r"(\d+) passed", out)

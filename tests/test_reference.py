@@ -11,18 +11,20 @@ from __future__ import annotations
 import math
 
 import pytest
-from lampcalc import dropper, eseries, flicker, ripple, wire
 from lampcalc.calculators import CALCULATORS
-from lampcalc.led import LedModule
-from lampcalc.regions import PRESETS
+from lampcalc.physics import dropper, flicker, ripple, wire
+from lampcalc.physics.led import LedModule
+from lampcalc.physics.strings import cv_options
+from lampcalc.quantities import eseries
+from lampcalc.quantities.regions import PRESETS
+from lampcalc.quantities.units import awg_diameter
 from lampcalc.schema import evaluate
-from lampcalc.strings import cv_options
-from lampcalc.units import awg_diameter
 
 pytestmark = pytest.mark.reference
 
 
 # --- mains -------------------------------------------------------------------------
+
 
 def test_V4_iec60038_230V_range() -> None:
     p = PRESETS["230-50"]
@@ -34,25 +36,43 @@ def test_V1_ansi_c84_1_range_A_120V_secondary_copy() -> None:
     assert (p.low, p.high) == pytest.approx((114.0, 126.0))
 
 
-@pytest.mark.parametrize(("vrms", "vpk"), [(100, 141.42), (120, 169.71), (127, 179.61), (230, 325.27), (240, 339.41), (253, 357.80)])
+@pytest.mark.parametrize(
+    ("vrms", "vpk"),
+    [(100, 141.42), (120, 169.71), (127, 179.61), (230, 325.27), (240, 339.41), (253, 357.80)],
+)
 def test_V8_peak_of_sine(vrms: float, vpk: float) -> None:
-    r = evaluate(CALCULATORS["mains"], {"region": "custom", "mains_voltage": f"{vrms} V", "frequency": "50 Hz", "mains_tolerance": "0 %"})
+    r = evaluate(
+        CALCULATORS["mains"],
+        {"region": "custom", "mains_voltage": f"{vrms} V", "frequency": "50 Hz", "mains_tolerance": "0 %"},
+    )
     assert r.values["peak"] == pytest.approx(vpk, rel=1e-4)
 
 
 # --- copper and wire ---------------------------------------------------------------
 
-@pytest.mark.parametrize(("t", "ratio"), [(0, 0.9214), (25, 1.0197), (40, 1.0786), (60, 1.1572), (75, 1.2162), (90, 1.2751), (105, 1.3341)])
+
+@pytest.mark.parametrize(
+    ("t", "ratio"),
+    [(0, 0.9214), (25, 1.0197), (40, 1.0786), (60, 1.1572), (75, 1.2162), (90, 1.2751), (105, 1.3341)],
+)
 def test_CU6_copper_resistance_ratio(t: float, ratio: float) -> None:
     assert wire.resistance_ratio(t) == pytest.approx(ratio, abs=1e-4)
 
 
 # AWG 10-30 table, arithmetic from ASTM B258 and IACS copper (row A7): d (mm), area (mm²), ohm/km at 20 °C
 A7 = {
-    10: (2.5882, 5.2612, 3.277), 12: (2.0525, 3.3088, 5.211), 14: (1.6277, 2.0809, 8.286), 16: (1.2908, 1.3087, 13.174),
-    18: (1.0237, 0.8230, 20.948), 20: (0.8118, 0.5176, 33.309), 22: (0.6438, 0.3255, 52.963), 24: (0.5106, 0.2047, 84.215),
-    26: (0.4049, 0.1288, 133.907), 28: (0.3211, 0.0810, 212.921), 30: (0.2546, 0.0509, 338.557),
-}  # fmt: skip
+    10: (2.5882, 5.2612, 3.277),
+    12: (2.0525, 3.3088, 5.211),
+    14: (1.6277, 2.0809, 8.286),
+    16: (1.2908, 1.3087, 13.174),
+    18: (1.0237, 0.8230, 20.948),
+    20: (0.8118, 0.5176, 33.309),
+    22: (0.6438, 0.3255, 52.963),
+    24: (0.5106, 0.2047, 84.215),
+    26: (0.4049, 0.1288, 133.907),
+    28: (0.3211, 0.0810, 212.921),
+    30: (0.2546, 0.0509, 338.557),
+}
 
 
 @pytest.mark.parametrize("gauge", sorted(A7))
@@ -101,6 +121,7 @@ def test_AM5_nec_400_5_cord_table_is_named() -> None:
 
 # --- preferred values --------------------------------------------------------------
 
+
 def test_E2_E12_table_IEC60063() -> None:
     assert eseries.SERIES["E12"] == (1.0, 1.2, 1.5, 1.8, 2.2, 2.7, 3.3, 3.9, 4.7, 5.6, 6.8, 8.2)
 
@@ -121,20 +142,38 @@ def test_E_series_up_down() -> None:
 
 # --- capacitive dropper -----------------------------------------------------------
 
-@pytest.mark.parametrize(("c", "f", "xc"), [(1e-6, 50, 3183.1), (1e-6, 60, 2652.6), (10e-6, 60, 265.26), (0.1e-6, 60, 26526),
-                                            (0.47e-6, 50, 6772.6), (2.2e-6, 60, 1205.7)])  # fmt: skip
+
+@pytest.mark.parametrize(
+    ("c", "f", "xc"),
+    [
+        (1e-6, 50, 3183.1),
+        (1e-6, 60, 2652.6),
+        (10e-6, 60, 265.26),
+        (0.1e-6, 60, 26526),
+        (0.47e-6, 50, 6772.6),
+        (2.2e-6, 60, 1205.7),
+    ],
+)
 def test_X2_X5_reactance(c: float, f: float, xc: float) -> None:
     assert dropper.reactance(c, f) == pytest.approx(xc, rel=1e-4)
 
 
-@pytest.mark.parametrize(("v", "f", "ma_per_uf"), [(230, 50, 72.26), (240, 50, 75.40), (253, 50, 79.48), (120, 60, 45.24), (100, 50, 31.42)])
+@pytest.mark.parametrize(
+    ("v", "f", "ma_per_uf"),
+    [(230, 50, 72.26), (240, 50, 75.40), (253, 50, 79.48), (120, 60, 45.24), (100, 50, 31.42)],
+)
 def test_X7_rms_mA_per_uF(v: float, f: float, ma_per_uf: float) -> None:
     assert dropper.naive_current(v, f, 1e-6) * 1e3 == pytest.approx(ma_per_uf, rel=1e-3)
 
 
 @pytest.mark.parametrize(
     ("v", "f", "c", "bus", "ma"),
-    [(230, 50, 0.47e-6, 90, 22.115), (230, 50, 1e-6, 200, 25.05), (120, 60, 1e-6, 60, 26.33), (120, 60, 2.2e-6, 90, 42.08)],
+    [
+        (230, 50, 0.47e-6, 90, 22.115),
+        (230, 50, 1e-6, 200, 25.05),
+        (120, 60, 1e-6, 60, 26.33),
+        (120, 60, 2.2e-6, 90, 42.08),
+    ],
 )
 def test_X10_X12_charge_balance_worked(v: float, f: float, c: float, bus: float, ma: float) -> None:
     assert dropper.average_current(v, f, c, bus, 0.0) * 1e3 == pytest.approx(ma, rel=1e-3)
@@ -144,7 +183,9 @@ def test_X8_X9_average_is_0_9_of_rms_into_short() -> None:
     assert dropper.average_current(230, 50, 1e-6, 0, 0) * 1e3 == pytest.approx(65.05, rel=1e-3)
     assert dropper.average_current(120, 60, 1e-6, 0, 0) * 1e3 == pytest.approx(40.73, rel=1e-3)
     # and the capacitor rms current into a short circuit is the naive V/Xc (X6)
-    assert dropper.capacitor_rms_current(230, 50, 1e-6, 0, 0) == pytest.approx(dropper.naive_current(230, 50, 1e-6), rel=1e-9)
+    assert dropper.capacitor_rms_current(230, 50, 1e-6, 0, 0) == pytest.approx(
+        dropper.naive_current(230, 50, 1e-6), rel=1e-9
+    )
 
 
 def test_X15_crest_energy() -> None:
@@ -154,8 +195,18 @@ def test_X15_crest_energy() -> None:
 
 # --- bleeders and surge -------------------------------------------------------------
 
-@pytest.mark.parametrize(("v0", "t", "vlim", "r"), [(325.3, 1, 34, 443e3), (357.8, 1, 34, 425e3), (169.7, 1, 34, 622e3),
-                                                    (179.6, 1, 34, 601e3), (325.3, 2, 60, 1.18e6), (357.8, 2, 60, 1.12e6)])  # fmt: skip
+
+@pytest.mark.parametrize(
+    ("v0", "t", "vlim", "r"),
+    [
+        (325.3, 1, 34, 443e3),
+        (357.8, 1, 34, 425e3),
+        (169.7, 1, 34, 622e3),
+        (179.6, 1, 34, 601e3),
+        (325.3, 2, 60, 1.18e6),
+        (357.8, 2, 60, 1.12e6),
+    ],
+)
 def test_S13_bleeder_maxima_per_uF_IEC60335_1_cl22_5(v0: float, t: float, vlim: float, r: float) -> None:
     assert dropper.bleeder_max(1e-6, t, v0, vlim) == pytest.approx(r, rel=3e-3)
 
@@ -169,8 +220,17 @@ def test_S14_bleeder_dissipation_and_S17_switch_on() -> None:
 
 # --- ripple and flicker ----------------------------------------------------------
 
-@pytest.mark.parametrize(("i", "c", "f", "pp"), [(20e-3, 100e-6, 50, 2.0), (20e-3, 100e-6, 60, 1.667), (2.0, 1000e-6, 60, 16.67),
-                                                 (50e-3, 47e-6, 50, 10.64), (50e-3, 47e-6, 60, 8.87)])  # fmt: skip
+
+@pytest.mark.parametrize(
+    ("i", "c", "f", "pp"),
+    [
+        (20e-3, 100e-6, 50, 2.0),
+        (20e-3, 100e-6, 60, 1.667),
+        (2.0, 1000e-6, 60, 16.67),
+        (50e-3, 47e-6, 50, 10.64),
+        (50e-3, 47e-6, 60, 8.87),
+    ],
+)
 def test_RP4_RP6_full_wave_ripple(i: float, c: float, f: float, pp: float) -> None:
     assert ripple.ripple_pp(i, f, c) == pytest.approx(pp, rel=2e-3)
 
@@ -216,7 +276,11 @@ def test_F10_F12_ieee1789_bands_from_memory(f: float, low: float, noe: float) ->
 
 # --- LED strings ---------------------------------------------------------------------
 
-@pytest.mark.parametrize(("vs", "n", "vf", "i", "r", "p"), [(12, 3, 3.0, 20e-3, 150, 0.060), (24, 6, 3.1, 20e-3, 270, 0.108), (24, 7, 3.0, 0.1, 30, 0.30)])
+
+@pytest.mark.parametrize(
+    ("vs", "n", "vf", "i", "r", "p"),
+    [(12, 3, 3.0, 20e-3, 150, 0.060), (24, 6, 3.1, 20e-3, 270, 0.108), (24, 7, 3.0, 0.1, 30, 0.30)],
+)
 def test_L5_ballast_worked(vs: float, n: int, vf: float, i: float, r: float, p: float) -> None:
     m = LedModule(v0=vf, r_dynamic=0.0)
     opts = cv_options(m, vs, 0.0, i, 25.0, 25.0, "E24", 1.0)

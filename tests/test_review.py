@@ -9,11 +9,11 @@ import re
 from pathlib import Path
 
 import pytest
-from lampcalc.check import check
-from lampcalc.design import parse_design
-from lampcalc.review import capacitor_life
-from lampcalc.sheet import OPERATING_ROWS, cell, render
-from lampcalc.tolerance import study
+from lampcalc.fixture.check import check
+from lampcalc.fixture.design import parse_design
+from lampcalc.fixture.review import capacitor_life
+from lampcalc.fixture.tolerance import study
+from lampcalc.present.sheet import OPERATING_ROWS, cell, render
 
 DESIGNS = Path(__file__).resolve().parent.parent / "docs" / "designs"
 BASE = (DESIGNS / "panel-230.toml").read_text()
@@ -27,8 +27,12 @@ def with_(**changes: str) -> str:
         block = re.search(rf"^\[{table}\]\n(.*?)(?=^\[|\Z)", text, re.M | re.S)
         assert block, table
         body = block.group(1)
-        new = re.sub(rf"^{key} = .*$", f"{key} = {value}", body, flags=re.M) if re.search(rf"^{key} = ", body, re.M) else body + f"{key} = {value}\n"
-        text = text[: block.start(1)] + new + text[block.end(1):]
+        new = (
+            re.sub(rf"^{key} = .*$", f"{key} = {value}", body, flags=re.M)
+            if re.search(rf"^{key} = ", body, re.M)
+            else body + f"{key} = {value}\n"
+        )
+        text = text[: block.start(1)] + new + text[block.end(1) :]
     return text
 
 
@@ -52,15 +56,32 @@ def test_demo_designs_are_clean() -> None:
 def test_unsafe_demo_fails_with_reasons() -> None:
     ans = check(parse_design((DESIGNS / "unsafe-demo.toml").read_text()))
     failed = {c["id"] for c in ans["checks"] if c["status"] == "fail"}
-    expected = {"dropper.class", "dropper.ac_rating", "smoothing.open_load", "smoothing.working_voltage", "bleeder.dropper", "bridge.surge",
-                "bridge.vrrm", "bridge.average", "bridge.thermal", "fuse.rating", "switch.rating", "smoothing.ripple_current",
-                "smoothing.life", "led.current", "flicker.ieee1789", "strings.sharing", "mains.region"}  # fmt: skip
+    expected = {
+        "dropper.class",
+        "dropper.ac_rating",
+        "smoothing.open_load",
+        "smoothing.working_voltage",
+        "bleeder.dropper",
+        "bridge.surge",
+        "bridge.vrrm",
+        "bridge.average",
+        "bridge.thermal",
+        "fuse.rating",
+        "switch.rating",
+        "smoothing.ripple_current",
+        "smoothing.life",
+        "led.current",
+        "flicker.ieee1789",
+        "strings.sharing",
+        "mains.region",
+    }
     assert expected <= failed
     for c in ans["checks"]:
         assert c["message"] and c["why"] and c["source"]
 
 
 # --- boundaries ---------------------------------------------------------------------------
+
 
 def test_dropper_ac_rating_boundary_IEC60384_14() -> None:
     # high mains 253 V (IEC 60038 +10 %); pass from 10 % above it (common practice margin)
@@ -79,7 +100,10 @@ def test_smoothing_open_load_boundary_common_practice(base: dict[str, object]) -
     assert status(with_(smoothing__voltage_rating=f'"{v + 0.5} V"'), "smoothing.open_load")[0] == "pass"
     assert status(with_(smoothing__voltage_rating=f'"{v - 0.5} V"'), "smoothing.open_load")[0] == "fail"
     # a declared clamp below the rating passes
-    assert status(with_(smoothing__voltage_rating='"200 V"', smoothing__clamp='"180 V"'), "smoothing.open_load")[0] == "pass"
+    assert (
+        status(with_(smoothing__voltage_rating='"200 V"', smoothing__clamp='"180 V"'), "smoothing.open_load")[0]
+        == "pass"
+    )
 
 
 def test_bleeder_boundary_IEC60335_1_cl22_5() -> None:
@@ -117,7 +141,10 @@ def test_ripple_current_boundary_datasheet(base: dict[str, object]) -> None:
     assert status(with_(smoothing__ripple_rating=f'"{i * 0.99} A"'), "smoothing.ripple_current")[0] == "fail"
 
 
-@pytest.mark.parametrize(("l0", "tr", "t", "hours"), [(1000, 105, 45, 64000), (1000, 105, 65, 16000), (2000, 105, 95, 4000), (1000, 85, 45, 16000)])
+@pytest.mark.parametrize(
+    ("l0", "tr", "t", "hours"),
+    [(1000, 105, 45, 64000), (1000, 105, 65, 16000), (2000, 105, 95, 4000), (1000, 85, 45, 16000)],
+)
 def test_S36_S38_ten_degree_rule(l0: float, tr: float, t: float, hours: float) -> None:
     assert capacitor_life(l0, tr, t) == pytest.approx(hours)
 
@@ -154,6 +181,7 @@ def test_wire_against_its_table_NEC_402_5_secondary_copy() -> None:
 
 # --- tolerance study -------------------------------------------------------------------------
 
+
 def test_monte_carlo_reproducible_and_bounded() -> None:
     d = parse_design(BASE)
     a = study(d, samples=400, seed=3)
@@ -164,11 +192,14 @@ def test_monte_carlo_reproducible_and_bounded() -> None:
     err = a["reduced_model"]["max_relative_error"]
     assert err < 0.005  # the reduced model costs under 0.5 % against the exact solver
     lo, hi = a["corners"]["led_current_min_A"], a["corners"]["led_current_max_A"]
-    assert lo * (1 - 2 * err - 1e-9) <= a["led_current_A"]["min"] <= a["led_current_A"]["max"] <= hi * (1 + 2 * err + 1e-9)
+    assert (
+        lo * (1 - 2 * err - 1e-9) <= a["led_current_A"]["min"] <= a["led_current_A"]["max"] <= hi * (1 + 2 * err + 1e-9)
+    )
     assert sum(a["histogram"]["counts"]) == 400
 
 
 # --- build sheets -------------------------------------------------------------------------------
+
 
 @pytest.mark.parametrize("name", ["panel-230", "worklight-120", "panel-24v", "unsafe-demo"])
 def test_sheet_numbers_equal_check(name: str) -> None:

@@ -8,7 +8,7 @@ percent flicker. The designs are invented to span the range the trade uses.
 from __future__ import annotations
 
 import pytest
-from lampcalc.steady import Bridge, Circuit, StringLoad, solve
+from lampcalc.circuit.steady import Bridge, Circuit, StringLoad, solve
 from spice import NGSPICE, run
 
 pytestmark = pytest.mark.spice
@@ -39,11 +39,21 @@ DESIGNS = {
     # 240 V open load: no strings, only the bleeder
     "240-open-load": Circuit(240, 50, 47, 1e-6, 470e3, LINE, 22e-6, 1.0, 100e3, ()),
     # 230 V with mismatched strings (one 1.5 V higher)
-    "230-mismatch": Circuit(230, 50, 47, 1.5e-6, 330e3, LINE, 220e-6, 0.6, 220e3,
-                            (StringLoad(34 * 2.7, 68, 1), StringLoad(34 * 2.7 + 1.5, 68, 1))),
+    "230-mismatch": Circuit(
+        230,
+        50,
+        47,
+        1.5e-6,
+        330e3,
+        LINE,
+        220e-6,
+        0.6,
+        220e3,
+        (StringLoad(34 * 2.7, 68, 1), StringLoad(34 * 2.7 + 1.5, 68, 1)),
+    ),
     # 120 V, tiny smoothing (10 uF): big ripple, strings dropping out each cycle
     "120-1u5-10uF-dropout": Circuit(120, 60, 68, 1.5e-6, 470e3, LINE, 10e-6, 1.0, 100e3, s(28)),
-}  # fmt: skip
+}
 
 
 def rel(a: float, b: float) -> float:

@@ -5,34 +5,51 @@ from __future__ import annotations
 import math
 
 import pytest
-from lampcalc import dropper, ripple
-from lampcalc.design import parse_design
+from lampcalc.circuit.steady import Bridge, Circuit, StringLoad, solve
 from lampcalc.errors import InputError, NoSolutionError
-from lampcalc.steady import Bridge, Circuit, StringLoad, solve
+from lampcalc.fixture.design import parse_design
+from lampcalc.physics import dropper, ripple
 
 
 def base(**kw: object) -> Circuit:
     args: dict[str, object] = dict(
-        mains_voltage=230.0, frequency=50.0, series_resistance=47.0, dropper=1e-6, dropper_bleeder=470e3,
-        bridge=Bridge("line", 0.9, 0.05), smoothing=220e-6, esr=0.5, bleeder=220e3, strings=(StringLoad(34 * 2.7, 34 * 2.0, 2),),
-    )  # fmt: skip
+        mains_voltage=230.0,
+        frequency=50.0,
+        series_resistance=47.0,
+        dropper=1e-6,
+        dropper_bleeder=470e3,
+        bridge=Bridge("line", 0.9, 0.05),
+        smoothing=220e-6,
+        esr=0.5,
+        bleeder=220e3,
+        strings=(StringLoad(34 * 2.7, 34 * 2.0, 2),),
+    )
     args.update(kw)
     return Circuit(**args)  # type: ignore[arg-type]
 
 
 @pytest.mark.parametrize(
     "c",
-    [base(), base(series_resistance=0.0, esr=0.0), base(bridge=Bridge("exponential", resistance=0.1)), base(dropper=None, series_resistance=300.0),
-     base(frequency=60.0, mains_voltage=120.0, strings=(StringLoad(20 * 2.7, 20 * 2.0, 1),))],
+    [
+        base(),
+        base(series_resistance=0.0, esr=0.0),
+        base(bridge=Bridge("exponential", resistance=0.1)),
+        base(dropper=None, series_resistance=300.0),
+        base(frequency=60.0, mains_voltage=120.0, strings=(StringLoad(20 * 2.7, 20 * 2.0, 1),)),
+    ],
     ids=["dropper", "no-series-R", "exponential", "resistor-fed", "120V"],
-)  # fmt: skip
+)
 def test_power_balance_within_0_1_percent(c: Circuit) -> None:
     st = solve(c)
     assert st.input_power == pytest.approx(st.led_power + sum(st.losses.values()), rel=1e-3)
     assert st.power_factor <= 1.0
 
 
-@pytest.mark.parametrize("c", [base(), base(series_resistance=0.0), base(bridge=Bridge("exponential", resistance=0.1))], ids=["line", "no-R", "exp"])
+@pytest.mark.parametrize(
+    "c",
+    [base(), base(series_resistance=0.0), base(bridge=Bridge("exponential", resistance=0.1))],
+    ids=["line", "no-R", "exp"],
+)
 def test_charge_balance_on_the_smoothing_capacitor(c: Circuit) -> None:
     # in the steady state the smoothing capacitor's charge returns each period: the bridge's average output
     # equals what the LEDs and the bleeder take (nothing in the solver imposes this; periodicity implies it)
@@ -43,8 +60,16 @@ def test_charge_balance_on_the_smoothing_capacitor(c: Circuit) -> None:
 
 
 def test_dropper_voltage_swings_by_charge_balance() -> None:
-    # ideal diodes, steady bus: the dropper swings between +/-(Vpk - Vbus') and carries 4 f C (Vpk - Vbus') on average (X8)
-    c = base(series_resistance=0.0, esr=0.0, smoothing=10e-3, bleeder=None, bridge=Bridge("line", 0.9, 0.01), dropper_bleeder=None)
+    # ideal diodes, steady bus: the dropper swings between +/-(Vpk - Vbus')
+    # and carries 4 f C (Vpk - Vbus') on average (X8)
+    c = base(
+        series_resistance=0.0,
+        esr=0.0,
+        smoothing=10e-3,
+        bleeder=None,
+        bridge=Bridge("line", 0.9, 0.01),
+        dropper_bleeder=None,
+    )
     st = solve(c)
     swing = math.sqrt(2) * 230 - st.bus_voltage.avg - 1.8
     assert st.dropper_voltage_peak == pytest.approx(swing, rel=2e-3)
@@ -52,15 +77,31 @@ def test_dropper_voltage_swings_by_charge_balance() -> None:
 
 def test_approaches_charge_balance_in_its_valid_limit() -> None:
     # large smoothing, no series resistor, ideal-ish diodes: the closed form I = 4 f C (Vpk - Vbus - 2 Vd) should hold
-    c = base(series_resistance=0.0, esr=0.0, smoothing=10e-3, bleeder=None, bridge=Bridge("line", 0.9, 0.01), dropper_bleeder=None)
+    c = base(
+        series_resistance=0.0,
+        esr=0.0,
+        smoothing=10e-3,
+        bleeder=None,
+        bridge=Bridge("line", 0.9, 0.01),
+        dropper_bleeder=None,
+    )
     st = solve(c)
     closed = dropper.average_current(230.0, 50.0, 1e-6, st.bus_voltage.avg, 0.9)
     assert st.led_current.avg == pytest.approx(closed, rel=2e-3)  # within 0.2 %
 
     # ripple: the closed form I/(2 f C) assumes the capacitor carries the load all the ripple period; a stiff
     # resistor feed with the bus near the crest (short conduction) is its valid limit: within 5 %, never below
-    r = solve(Circuit(230.0, 50.0, series_resistance=2.0, dropper=None, bridge=Bridge("line", 0.9, 0.01), smoothing=1e-3,
-                      strings=(StringLoad(300.0, 3000.0, 1),)))  # fmt: skip
+    r = solve(
+        Circuit(
+            230.0,
+            50.0,
+            series_resistance=2.0,
+            dropper=None,
+            bridge=Bridge("line", 0.9, 0.01),
+            smoothing=1e-3,
+            strings=(StringLoad(300.0, 3000.0, 1),),
+        )
+    )
     pp = ripple.ripple_pp(r.led_current.avg, 50.0, 1e-3)
     assert r.ripple_pp == pytest.approx(pp, rel=0.05)
     assert r.ripple_pp < pp
@@ -78,8 +119,8 @@ def test_no_conduction_is_an_error() -> None:
 
 
 def test_non_convergence_says_what_and_why() -> None:
+    from lampcalc.circuit.steady import Solver
     from lampcalc.errors import ConvergenceError
-    from lampcalc.steady import Solver
 
     with pytest.raises(ConvergenceError, match=r"state after a half period.*after 1 Newton steps"):
         Solver(base()).solve((0.0, 0.0), max_iter=1)

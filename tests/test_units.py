@@ -8,7 +8,7 @@ import pytest
 from hypothesis import example, given
 from hypothesis import strategies as st
 from lampcalc.errors import InputError
-from lampcalc.units import DIMENSIONS, awg_area, format_value, parse
+from lampcalc.quantities.units import DIMENSIONS, awg_area, format_value, parse
 
 
 @pytest.mark.parametrize(

@@ -38,12 +38,36 @@ def handle(text: str) -> str:
     try:
         req = json.loads(text)
     except ValueError as e:
-        return json.dumps({"ok": False, "errors": [{"field": "request", "value": text[:80], "expected": "JSON", "message": str(e)}]})
+        return json.dumps(
+            {
+                "ok": False,
+                "errors": [{"field": "request", "value": text[:80], "expected": "JSON", "message": str(e)}],
+            }
+        )
     if not isinstance(req, dict):
-        return json.dumps({"ok": False, "errors": [{"field": "request", "value": str(req)[:80], "expected": "a JSON object", "message": "request must be an object"}]})
+        return json.dumps(
+            {
+                "ok": False,
+                "errors": [
+                    {
+                        "field": "request",
+                        "value": str(req)[:80],
+                        "expected": "a JSON object",
+                        "message": "request must be an object",
+                    }
+                ],
+            }
+        )
     kind = req.get("kind", "compute")
     if kind == "describe":
-        return json.dumps({"ok": True, "calculators": [describe(c) for c in CALCULATORS.values()], "regions": region_presets()}, sort_keys=True)
+        return json.dumps(
+            {
+                "ok": True,
+                "calculators": [describe(c) for c in CALCULATORS.values()],
+                "regions": region_presets(),
+            },
+            sort_keys=True,
+        )
     if kind == "compute":
         inputs = req.get("inputs", {})
         if not isinstance(inputs, dict):

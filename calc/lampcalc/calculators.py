@@ -7,16 +7,16 @@ import math
 from collections.abc import Mapping
 
 from . import cautions as caution_text
-from . import dropper as drop
-from . import ripple as rip
-from . import strings, wire
 from .errors import InputError, NoSolutionError
-from .eseries import SERIES, next_down, preferred
-from .flicker import ieee1789_band
-from .led import DEFAULT_TEMPCO, LedModule
-from .regions import PRESETS
+from .physics import dropper as drop
+from .physics import ripple as rip
+from .physics import strings, wire
+from .physics.flicker import ieee1789_band
+from .physics.led import DEFAULT_TEMPCO, LedModule
+from .quantities.eseries import SERIES, next_down, preferred
+from .quantities.regions import PRESETS
+from .quantities.units import DIMENSIONS, format_value, parse
 from .schema import Calculator, Output, Param, Result, Value
-from .units import DIMENSIONS, format_value, parse
 
 V = Mapping[str, Value]
 
@@ -34,38 +34,111 @@ def opt(v: V, name: str) -> float | None:
 
 # --- shared groups of inputs -------------------------------------------------
 
+
 def mains_params(default_region: str = "230-50", modes: tuple[str, ...] = ()) -> tuple[Param, ...]:
     return (
-        Param("region", "Mains preset", "region", default_region,
-              "Fills voltage, frequency and tolerance from a region preset; 'custom' uses the fields below.", modes=modes),
-        Param("mains_voltage", "Mains voltage (rms)", "voltage", None,
-              "Nominal rms mains voltage; blank takes the preset's.", 1.0, 1000.0, modes=modes),
-        Param("frequency", "Mains frequency", "frequency", None,
-              "Mains frequency; blank takes the preset's.", 1.0, 1000.0, modes=modes),
-        Param("mains_tolerance", "Mains tolerance (±)", "ratio", None,
-              "Band around nominal for the worst cases; blank takes the preset's band.", 0.0, 0.5, modes=modes),
-    )  # fmt: skip
+        Param(
+            "region",
+            "Mains preset",
+            "region",
+            default_region,
+            "Fills voltage, frequency and tolerance from a region preset; 'custom' uses the fields below.",
+            modes=modes,
+        ),
+        Param(
+            "mains_voltage",
+            "Mains voltage (rms)",
+            "voltage",
+            None,
+            "Nominal rms mains voltage; blank takes the preset's.",
+            1.0,
+            1000.0,
+            modes=modes,
+        ),
+        Param(
+            "frequency",
+            "Mains frequency",
+            "frequency",
+            None,
+            "Mains frequency; blank takes the preset's.",
+            1.0,
+            1000.0,
+            modes=modes,
+        ),
+        Param(
+            "mains_tolerance",
+            "Mains tolerance (±)",
+            "ratio",
+            None,
+            "Band around nominal for the worst cases; blank takes the preset's band.",
+            0.0,
+            0.5,
+            modes=modes,
+        ),
+    )
 
 
 def module_params(v0: str = "2.7 V", rd: str = "2 Ω", imax: str = "60 mA") -> tuple[Param, ...]:
     return (
-        Param("v0", "Module knee voltage V0", "voltage", v0,
-              "Where the module's straight line V = V0 + Rd·I meets zero current, at 25 °C.", 0.1, 500.0, exclusive_min=True),
-        Param("r_dynamic", "Module dynamic resistance Rd", "resistance", rd,
-              "Slope of the module's V-I line above the knee.", 0.0, 1e6),
-        Param("current_max", "Module maximum current", "current", imax, "The module's rated maximum current.", 0.0, 100.0, exclusive_min=True),
-        Param("vf_tempco", "Vf temperature coefficient", "tempco", f"{DEFAULT_TEMPCO * 1000:g} mV/K",
-              "Per module; the default is a textbook value for one die: use the datasheet's.", -1.0, 1.0),
-        Param("vf_spread", "Vf tolerance (±)", "ratio", "3 %",
-              "Spread of forward voltage between modules, as a fraction of Vf at the working current.", 0.0, 0.4),
-    )  # fmt: skip
+        Param(
+            "v0",
+            "Module knee voltage V0",
+            "voltage",
+            v0,
+            "Where the module's straight line V = V0 + Rd·I meets zero current, at 25 °C.",
+            0.1,
+            500.0,
+            exclusive_min=True,
+        ),
+        Param(
+            "r_dynamic",
+            "Module dynamic resistance Rd",
+            "resistance",
+            rd,
+            "Slope of the module's V-I line above the knee.",
+            0.0,
+            1e6,
+        ),
+        Param(
+            "current_max",
+            "Module maximum current",
+            "current",
+            imax,
+            "The module's rated maximum current.",
+            0.0,
+            100.0,
+            exclusive_min=True,
+        ),
+        Param(
+            "vf_tempco",
+            "Vf temperature coefficient",
+            "tempco",
+            f"{DEFAULT_TEMPCO * 1000:g} mV/K",
+            "Per module; the default is a textbook value for one die: use the datasheet's.",
+            -1.0,
+            1.0,
+        ),
+        Param(
+            "vf_spread",
+            "Vf tolerance (±)",
+            "ratio",
+            "3 %",
+            "Spread of forward voltage between modules, as a fraction of Vf at the working current.",
+            0.0,
+            0.4,
+        ),
+    )
 
 
 def module_from(v: V, current_ref: float | None = None) -> LedModule:
     return LedModule(
-        v0=f(v, "v0"), r_dynamic=f(v, "r_dynamic"), current_max=f(v, "current_max"),
-        vf_tempco=f(v, "vf_tempco"), vf_spread=f(v, "vf_spread"), current_ref=current_ref,
-    )  # fmt: skip
+        v0=f(v, "v0"),
+        r_dynamic=f(v, "r_dynamic"),
+        current_max=f(v, "current_max"),
+        vf_tempco=f(v, "vf_tempco"),
+        vf_spread=f(v, "vf_spread"),
+        current_ref=current_ref,
+    )
 
 
 def mains_range(v: V) -> tuple[float, float, float, float]:
@@ -76,6 +149,7 @@ def mains_range(v: V) -> tuple[float, float, float, float]:
 
 # --- quantity ---------------------------------------------------------------
 
+
 def _quantity(v: V) -> Result:
     dim = str(v["dimension"])
     x = parse(str(v["text"]), dim, "text")
@@ -83,18 +157,31 @@ def _quantity(v: V) -> Result:
 
 
 QUANTITY = Calculator(
-    "quantity", "Quantity reader", "Reads a value as people type it and shows it in SI.",
+    "quantity",
+    "Quantity reader",
+    "Reads a value as people type it and shows it in SI.",
     (
         Param("text", "Value", "text", "22 uF", "The value with its unit, e.g. '22 uF' or '18 AWG'."),
-        Param("dimension", "Kind of quantity", "choice", "capacitance", "What the value measures.",
-              choices=tuple(DIMENSIONS)),
+        Param(
+            "dimension",
+            "Kind of quantity",
+            "choice",
+            "capacitance",
+            "What the value measures.",
+            choices=tuple(DIMENSIONS),
+        ),
     ),
-    (Output("si", "SI value", "text"), Output("formatted", "Reads as", "text"), Output("exact", "Exact", "text")),
+    (
+        Output("si", "SI value", "text"),
+        Output("formatted", "Reads as", "text"),
+        Output("exact", "Exact", "text"),
+    ),
     _quantity,
-)  # fmt: skip
+)
 
 
 # --- LED module -------------------------------------------------------------
+
 
 def _module(v: V) -> Result:
     pts = [opt(v, k) for k in ("i1", "v1", "i2", "v2")]
@@ -114,40 +201,77 @@ def _module(v: V) -> Result:
     volt = opt(v, "voltage")
     warnings = []
     if i > m.current_max:
-        warnings.append(f"{format_value(i, 'current')} is above the module's maximum {format_value(m.current_max, 'current')}.")
+        warnings.append(
+            f"{format_value(i, 'current')} is above the module's maximum {format_value(m.current_max, 'current')}."
+        )
     return Result(
         {
-            "v0": m.v0, "r_dynamic": m.r_dynamic, "vf": vf,
-            "vf_min": m.voltage(i, t, -1), "vf_max": m.voltage(i, t, +1),
-            "power": vf * i, "current_at_voltage": m.current(volt, t) if volt is not None else None,
+            "v0": m.v0,
+            "r_dynamic": m.r_dynamic,
+            "vf": vf,
+            "vf_min": m.voltage(i, t, -1),
+            "vf_max": m.voltage(i, t, +1),
+            "power": vf * i,
+            "current_at_voltage": m.current(volt, t) if volt is not None else None,
         },
-        notes=tuple(notes), warnings=tuple(warnings),
-    )  # fmt: skip
+        notes=tuple(notes),
+        warnings=tuple(warnings),
+    )
 
 
 MODULE = Calculator(
-    "module", "LED module line", "Straight-line model of a module: voltage at a current, current at a voltage, tolerance band.",
+    "module",
+    "LED module line",
+    "Straight-line model of a module: voltage at a current, current at a voltage, tolerance band.",
     (
         *module_params(),
-        Param("i1", "Datasheet point 1: current", "current", None, "With v1, i2, v2: fit V0 and Rd from two points.", 0.0, 100.0),
+        Param(
+            "i1",
+            "Datasheet point 1: current",
+            "current",
+            None,
+            "With v1, i2, v2: fit V0 and Rd from two points.",
+            0.0,
+            100.0,
+        ),
         Param("v1", "Datasheet point 1: voltage", "voltage", None, "", 0.0, 1000.0),
         Param("i2", "Datasheet point 2: current", "current", None, "", 0.0, 100.0),
         Param("v2", "Datasheet point 2: voltage", "voltage", None, "", 0.0, 1000.0),
-        Param("current", "Working current", "current", "20 mA", "Current at which to report the voltage.", 0.0, 100.0),
-        Param("voltage", "Voltage to test", "voltage", None, "If given, the current the module draws at it.", 0.0, 1000.0),
+        Param(
+            "current",
+            "Working current",
+            "current",
+            "20 mA",
+            "Current at which to report the voltage.",
+            0.0,
+            100.0,
+        ),
+        Param(
+            "voltage",
+            "Voltage to test",
+            "voltage",
+            None,
+            "If given, the current the module draws at it.",
+            0.0,
+            1000.0,
+        ),
         Param("temperature", "Module temperature", "temperature", "25 °C", "", -60.0, 200.0),
     ),
     (
-        Output("v0", "Knee voltage V0", "voltage"), Output("r_dynamic", "Dynamic resistance Rd", "resistance"),
-        Output("vf", "Forward voltage", "voltage"), Output("vf_min", "Forward voltage, low end", "voltage"),
-        Output("vf_max", "Forward voltage, high end", "voltage"), Output("power", "Module power", "power"),
+        Output("v0", "Knee voltage V0", "voltage"),
+        Output("r_dynamic", "Dynamic resistance Rd", "resistance"),
+        Output("vf", "Forward voltage", "voltage"),
+        Output("vf_min", "Forward voltage, low end", "voltage"),
+        Output("vf_max", "Forward voltage, high end", "voltage"),
+        Output("power", "Module power", "power"),
         Output("current_at_voltage", "Current at the test voltage", "current"),
     ),
     _module,
-)  # fmt: skip
+)
 
 
 # --- string planner -------------------------------------------------------------
+
 
 def _string(v: V) -> Result:
     supply = str(v["supply"])
@@ -159,11 +283,23 @@ def _string(v: V) -> Result:
     if i > m.current_max:
         warnings.append("The target current is above the module's maximum.")
     if supply == "cv":
-        opts = strings.cv_options(m, f(v, "supply_voltage"), f(v, "supply_tolerance"), i, t_cold, t_hot,
-                                  str(v["e_series"]), f(v, "derating"))  # fmt: skip
+        opts = strings.cv_options(
+            m,
+            f(v, "supply_voltage"),
+            f(v, "supply_tolerance"),
+            i,
+            t_cold,
+            t_hot,
+            str(v["e_series"]),
+            f(v, "derating"),
+        )
         if not opts:
-            raise NoSolutionError("supply_voltage", format_value(f(v, "supply_voltage"), "voltage"),
-                                  "a supply above one module's forward voltage", "no series count fits this supply")  # fmt: skip
+            raise NoSolutionError(
+                "supply_voltage",
+                format_value(f(v, "supply_voltage"), "voltage"),
+                "a supply above one module's forward voltage",
+                "no series count fits this supply",
+            )
         want = opt(v, "series")
         pick = next((o for o in opts if o.series == want), None) if want else strings.cv_pick(opts)
         if want and pick is None:
@@ -172,51 +308,88 @@ def _string(v: V) -> Result:
             pick = opts[0]
             warnings.append("No series count keeps 10 % headroom; current will swing with Vf and temperature.")
         if pick.headroom < strings.MIN_HEADROOM:
-            warnings.append(f"Headroom {pick.headroom:.0%} is under 10 % (common practice: keep 10-25 % across the ballast).")
+            warnings.append(
+                f"Headroom {pick.headroom:.0%} is under 10 % (common practice: keep 10-25 % across the ballast)."
+            )
         if pick.current_max > m.current_max:
             warnings.append("At the worst corner the string current exceeds the module's maximum.")
         notes.append("Worst-case high: high supply, low Vf, hot. Low: low supply, high Vf, cold.")
         values: dict[str, Value] = {
-            "series": float(pick.series), "ballast_exact": pick.ballast_exact, "ballast": pick.ballast,
-            "string_current": pick.current, "string_current_min": pick.current_min, "string_current_max": pick.current_max,
-            "resistor_power": pick.resistor_power, "resistor_rating": pick.resistor_rating,
-            "efficiency": pick.efficiency, "headroom": pick.headroom,
-        }  # fmt: skip
+            "series": float(pick.series),
+            "ballast_exact": pick.ballast_exact,
+            "ballast": pick.ballast,
+            "string_current": pick.current,
+            "string_current_min": pick.current_min,
+            "string_current_max": pick.current_max,
+            "resistor_power": pick.resistor_power,
+            "resistor_rating": pick.resistor_rating,
+            "efficiency": pick.efficiency,
+            "headroom": pick.headroom,
+        }
         rows = tuple(
-            {"series": float(o.series), "ballast": o.ballast, "string_current": o.current,
-             "string_current_max": o.current_max, "resistor_power": o.resistor_power,
-             "efficiency": o.efficiency, "headroom": o.headroom}
+            {
+                "series": float(o.series),
+                "ballast": o.ballast,
+                "string_current": o.current,
+                "string_current_max": o.current_max,
+                "resistor_power": o.resistor_power,
+                "efficiency": o.efficiency,
+                "headroom": o.headroom,
+            }
             for o in opts
-        )  # fmt: skip
+        )
         return Result(values, rows, tuple(notes), tuple(warnings), caution_text.LOW_VOLTAGE)
     if supply == "cc":
         mods = opt(v, "modules")
-        cc = strings.cc_options(m, f(v, "driver_current"), f(v, "driver_v_min"), f(v, "driver_v_max"), t_cold, t_hot,
-                                int(f(v, "series_max")), int(f(v, "parallel_max")), int(mods) if mods else None)  # fmt: skip
+        cc = strings.cc_options(
+            m,
+            f(v, "driver_current"),
+            f(v, "driver_v_min"),
+            f(v, "driver_v_max"),
+            t_cold,
+            t_hot,
+            int(f(v, "series_max")),
+            int(f(v, "parallel_max")),
+            int(mods) if mods else None,
+        )
         ok = [o for o in cc if o.within_rating]
         if not ok:
             warnings.append("No arrangement fits the driver's window with every string within the module's rating.")
         best = max(ok, key=lambda o: o.series * o.parallel) if ok else None
         values = {
-            "series": float(best.series) if best else None, "parallel": float(best.parallel) if best else None,
+            "series": float(best.series) if best else None,
+            "parallel": float(best.parallel) if best else None,
             "string_current": best.string_current if best else None,
-            "voltage_cold": best.voltage_cold if best else None, "voltage_hot": best.voltage_hot if best else None,
-        }  # fmt: skip
+            "voltage_cold": best.voltage_cold if best else None,
+            "voltage_hot": best.voltage_hot if best else None,
+        }
         if best and best.parallel > 1:
-            warnings.append("Parallel strings on one driver share current by their Vf: match the modules or add ballast.")
+            warnings.append(
+                "Parallel strings on one driver share current by their Vf: match the modules or add ballast."
+            )
         rows_cc: tuple[Mapping[str, Value], ...] = tuple(
-            {"series": float(o.series), "parallel": float(o.parallel), "string_current": o.string_current,
-             "voltage_cold": o.voltage_cold, "voltage_hot": o.voltage_hot,
-             "rating": "ok" if o.within_rating else "over rating"}
+            {
+                "series": float(o.series),
+                "parallel": float(o.parallel),
+                "string_current": o.string_current,
+                "voltage_cold": o.voltage_cold,
+                "voltage_hot": o.voltage_hot,
+                "rating": "ok" if o.within_rating else "over rating",
+            }
             for o in cc
-        )  # fmt: skip
+        )
         notes.append("Cold: high Vf end at the cold temperature; hot: low Vf end at the hot temperature.")
         return Result(values, rows_cc, tuple(notes), tuple(warnings), caution_text.LOW_VOLTAGE)
     # dropper bus
     vn, _, _, fr = mains_range(v)
     dopts = strings.dropper_options(m, vn, fr, f(v, "mains_plus"), i, f(v, "diode_drop"))
     if not dopts:
-        raise NoSolutionError("mains_voltage", format_value(vn, "voltage"), "a mains peak above one module", "no series count conducts")
+        raise NoSolutionError(
+            "mains_voltage",
+            format_value(vn, "voltage"),
+            "a mains peak above one module",
+            "no series count conducts",
+        )
     frac = f(v, "bus_fraction")
     pick_d = min(dopts, key=lambda o: abs(o.fraction - frac))
     notes.append(
@@ -224,34 +397,107 @@ def _string(v: V) -> Result:
         "steeply (sensitivity = Vpk / (Vpk - Vbus - 2 Vd)) and a low-mains dip dims it more."
     )
     values = {
-        "series": float(pick_d.series), "bus_voltage": pick_d.bus, "bus_fraction": pick_d.fraction,
-        "capacitance": pick_d.capacitance, "string_current_max": pick_d.current_high_mains,
+        "series": float(pick_d.series),
+        "bus_voltage": pick_d.bus,
+        "bus_fraction": pick_d.fraction,
+        "capacitance": pick_d.capacitance,
+        "string_current_max": pick_d.current_high_mains,
         "sensitivity": pick_d.sensitivity,
-    }  # fmt: skip
+    }
     rows = tuple(
-        {"series": float(o.series), "bus_voltage": o.bus, "bus_fraction": o.fraction, "capacitance": o.capacitance,
-         "string_current_max": o.current_high_mains, "sensitivity": o.sensitivity}
+        {
+            "series": float(o.series),
+            "bus_voltage": o.bus,
+            "bus_fraction": o.fraction,
+            "capacitance": o.capacitance,
+            "string_current_max": o.current_high_mains,
+            "sensitivity": o.sensitivity,
+        }
         for o in dopts
-    )  # fmt: skip
+    )
     return Result(values, rows, tuple(notes), tuple(warnings), caution_text.MAINS)
 
 
 _CV, _CC, _DR = ("cv",), ("cc",), ("dropper",)
 STRING = Calculator(
-    "string", "String planner", "Series and parallel counts for a constant-voltage supply, a constant-current driver or a dropper bus.",
+    "string",
+    "String planner",
+    "Series and parallel counts for a constant-voltage supply, a constant-current driver or a dropper bus.",
     (
-        Param("supply", "Supply kind", "choice", "cv", "cv: constant voltage with ballast; cc: constant-current driver; dropper: mains dropper bus.",
-              choices=("cv", "cc", "dropper")),
+        Param(
+            "supply",
+            "Supply kind",
+            "choice",
+            "cv",
+            "cv: constant voltage with ballast; cc: constant-current driver; dropper: mains dropper bus.",
+            choices=("cv", "cc", "dropper"),
+        ),
         *module_params(),
-        Param("current", "Target current per string", "current", "20 mA", "", 0.0, 100.0, exclusive_min=True, modes=_CV + _DR),
+        Param(
+            "current",
+            "Target current per string",
+            "current",
+            "20 mA",
+            "",
+            0.0,
+            100.0,
+            exclusive_min=True,
+            modes=_CV + _DR,
+        ),
         Param("temperature_cold", "Coldest module temperature", "temperature", "0 °C", "", -60.0, 200.0),
         Param("temperature_hot", "Hottest module temperature", "temperature", "70 °C", "", -60.0, 200.0),
-        Param("supply_voltage", "Supply voltage", "voltage", "24 V", "", 0.0, 1000.0, exclusive_min=True, modes=_CV),
+        Param(
+            "supply_voltage",
+            "Supply voltage",
+            "voltage",
+            "24 V",
+            "",
+            0.0,
+            1000.0,
+            exclusive_min=True,
+            modes=_CV,
+        ),
         Param("supply_tolerance", "Supply tolerance (±)", "ratio", "5 %", "", 0.0, 0.5, modes=_CV),
-        Param("series", "Series count", "count", None, "Blank: the longest string that keeps 10 % headroom.", 1, 1000, modes=_CV),
-        Param("e_series", "Resistor series", "choice", "E24", "Preferred values for the ballast (next value up).", choices=tuple(SERIES), modes=_CV),
-        Param("derating", "Resistor derating", "ratio", "50 %", "Run resistors at most at this fraction of their rating (common practice).", 0.05, 1.0, modes=_CV),
-        Param("driver_current", "Driver output current", "current", "350 mA", "", 0.0, 100.0, exclusive_min=True, modes=_CC),
+        Param(
+            "series",
+            "Series count",
+            "count",
+            None,
+            "Blank: the longest string that keeps 10 % headroom.",
+            1,
+            1000,
+            modes=_CV,
+        ),
+        Param(
+            "e_series",
+            "Resistor series",
+            "choice",
+            "E24",
+            "Preferred values for the ballast (next value up).",
+            choices=tuple(SERIES),
+            modes=_CV,
+        ),
+        Param(
+            "derating",
+            "Resistor derating",
+            "ratio",
+            "50 %",
+            "Run resistors at most at this fraction of their rating (common practice).",
+            0.05,
+            1.0,
+            modes=_CV,
+        ),
+        Param(
+            "driver_current",
+            "Driver output current",
+            "current",
+            "350 mA",
+            "",
+            0.0,
+            100.0,
+            exclusive_min=True,
+            modes=_CC,
+        ),
         Param("driver_v_min", "Driver voltage window, low", "voltage", "9 V", "", 0.0, 1000.0, modes=_CC),
         Param("driver_v_max", "Driver voltage window, high", "voltage", "36 V", "", 0.0, 1000.0, modes=_CC),
         Param("modules", "Modules to place", "count", None, "Blank: every count that fits.", 1, 10000, modes=_CC),
@@ -262,32 +508,49 @@ STRING = Calculator(
         Param("bus_fraction", "Bus as a fraction of mains peak", "ratio", "50 %", "", 0.05, 0.95, modes=_DR),
     ),
     (
-        Output("series", "Modules in series", "count"), Output("parallel", "Strings in parallel", "count"),
-        Output("ballast_exact", "Ballast, exact", "resistance"), Output("ballast", "Ballast, preferred value", "resistance"),
-        Output("string_current", "String current", "current"), Output("string_current_min", "String current, worst low", "current"),
+        Output("series", "Modules in series", "count"),
+        Output("parallel", "Strings in parallel", "count"),
+        Output("ballast_exact", "Ballast, exact", "resistance"),
+        Output("ballast", "Ballast, preferred value", "resistance"),
+        Output("string_current", "String current", "current"),
+        Output("string_current_min", "String current, worst low", "current"),
         Output("string_current_max", "String current, worst high", "current"),
-        Output("resistor_power", "Ballast dissipation, worst", "power"), Output("resistor_rating", "Ballast rating needed", "power"),
-        Output("efficiency", "Efficiency", "ratio"), Output("headroom", "Headroom", "ratio"),
-        Output("voltage_cold", "String voltage, cold", "voltage"), Output("voltage_hot", "String voltage, hot", "voltage"),
-        Output("bus_voltage", "Bus voltage", "voltage"), Output("bus_fraction", "Bus / mains peak", "ratio"),
-        Output("capacitance", "Dropper capacitance", "capacitance"), Output("sensitivity", "Current sensitivity to mains", "count"),
+        Output("resistor_power", "Ballast dissipation, worst", "power"),
+        Output("resistor_rating", "Ballast rating needed", "power"),
+        Output("efficiency", "Efficiency", "ratio"),
+        Output("headroom", "Headroom", "ratio"),
+        Output("voltage_cold", "String voltage, cold", "voltage"),
+        Output("voltage_hot", "String voltage, hot", "voltage"),
+        Output("bus_voltage", "Bus voltage", "voltage"),
+        Output("bus_fraction", "Bus / mains peak", "ratio"),
+        Output("capacitance", "Dropper capacitance", "capacitance"),
+        Output("sensitivity", "Current sensitivity to mains", "count"),
     ),
     _string,
     mains=False,
     mode="supply",
     mains_modes=("dropper",),
     columns=(
-        Output("series", "S", "count"), Output("parallel", "P", "count"), Output("ballast", "Ballast", "resistance"),
-        Output("string_current", "I", "current"), Output("string_current_max", "I worst", "current"),
-        Output("voltage_cold", "V cold", "voltage"), Output("voltage_hot", "V hot", "voltage"),
-        Output("bus_voltage", "Bus", "voltage"), Output("capacitance", "Dropper", "capacitance"),
-        Output("sensitivity", "Sensitivity", "count"), Output("resistor_power", "P ballast", "power"),
-        Output("efficiency", "Efficiency", "ratio"), Output("headroom", "Headroom", "ratio"), Output("rating", "Rating", "text"),
+        Output("series", "S", "count"),
+        Output("parallel", "P", "count"),
+        Output("ballast", "Ballast", "resistance"),
+        Output("string_current", "I", "current"),
+        Output("string_current_max", "I worst", "current"),
+        Output("voltage_cold", "V cold", "voltage"),
+        Output("voltage_hot", "V hot", "voltage"),
+        Output("bus_voltage", "Bus", "voltage"),
+        Output("capacitance", "Dropper", "capacitance"),
+        Output("sensitivity", "Sensitivity", "count"),
+        Output("resistor_power", "P ballast", "power"),
+        Output("efficiency", "Efficiency", "ratio"),
+        Output("headroom", "Headroom", "ratio"),
+        Output("rating", "Rating", "text"),
     ),
-)  # fmt: skip
+)
 
 
 # --- dropper ------------------------------------------------------------------
+
 
 def _dropper(v: V) -> Result:
     vn, vlo, vhi, fr = mains_range(v)
@@ -299,9 +562,12 @@ def _dropper(v: V) -> Result:
         warnings.append("At low mains the crest does not reach the bus plus two diode drops: no current flows.")
     i_avg = drop.average_current(vn, fr, c, vbus, vd)
     if i_avg == 0:
-        raise NoSolutionError("bus_voltage", format_value(vbus, "voltage"),
-                              f"a bus below the mains peak {format_value(math.sqrt(2) * vn, 'voltage')} less two diode drops",
-                              "the bridge never conducts")  # fmt: skip
+        raise NoSolutionError(
+            "bus_voltage",
+            format_value(vbus, "voltage"),
+            f"a bus below the mains peak {format_value(math.sqrt(2) * vn, 'voltage')} less two diode drops",
+            "the bridge never conducts",
+        )
     other = 60.0 if fr == 50.0 else 50.0
     target = opt(v, "target_current")
     c_need = drop.capacitance_for(target, vn, fr, vbus, vd) if target else None
@@ -311,12 +577,20 @@ def _dropper(v: V) -> Result:
     if stock:
         need = c_need if c_need else c
         if need / stock > 1000:
-            raise InputError("stock_capacitance", format_value(stock, "capacitance"),
-                             f"at least 1/1000 of the {format_value(need, 'capacitance')} needed")  # fmt: skip
+            raise InputError(
+                "stock_capacitance",
+                format_value(stock, "capacitance"),
+                f"at least 1/1000 of the {format_value(need, 'capacitance')} needed",
+            )
         bank = float(max(1, math.ceil(need / stock - 1e-9)))
         for k in range(1, int(bank) + 1):
-            rows.append({"step": float(k), "capacitance": k * stock,
-                         "led_current_avg": drop.average_current(vn, fr, k * stock, vbus, vd)})  # fmt: skip
+            rows.append(
+                {
+                    "step": float(k),
+                    "capacitance": k * stock,
+                    "led_current_avg": drop.average_current(vn, fr, k * stock, vbus, vd),
+                }
+            )
     c_hi = c * (1 + ctol)
     pk_hi = math.sqrt(2) * vhi
     t_dis, v_lim = f(v, "discharge_time"), f(v, "discharge_voltage")
@@ -325,18 +599,23 @@ def _dropper(v: V) -> Result:
     r_b = bleeder if bleeder else next_down(r_max, "E12")
     t_b = drop.discharge_time(c_hi, r_b, pk_hi, v_lim)
     if bleeder and t_b > t_dis:
-        warnings.append(f"The {format_value(bleeder, 'resistance')} bleeder takes {t_b:.2f} s, over the {t_dis:g} s target.")
+        warnings.append(
+            f"The {format_value(bleeder, 'resistance')} bleeder takes {t_b:.2f} s, over the {t_dis:g} s target."
+        )
     i_cap_hi = drop.capacitor_rms_current(vhi, fr, c_hi, vbus, vd)
     notes = (
         "Average LED current by charge balance: I = 4·f·C·(Vpk − Vbus − 2·Vd); assumes ideal diodes, a bus held "
         "steady by a large smoothing capacitor and no series resistance. The naive V/Xc is the rms current into a "
         "short circuit. `lampbook check` solves the real circuit.",
         "Discharge default: 34 V within 1 s after unplugging at the crest (IEC 60335-1 cl. 22.5, applied by analogy).",
-        "Small film resistors are often limited to about 200-250 V working voltage: split the bleeder in series (common practice).",
+        "Small film resistors are often limited to about 200-250 V working voltage: "
+        "split the bleeder in series (common practice).",
     )
     vals: dict[str, Value] = {
-        "peak_voltage": math.sqrt(2) * vn, "reactance": drop.reactance(c, fr),
-        "current_naive": drop.naive_current(vn, fr, c), "led_current_avg": i_avg,
+        "peak_voltage": math.sqrt(2) * vn,
+        "reactance": drop.reactance(c, fr),
+        "current_naive": drop.naive_current(vn, fr, c),
+        "led_current_avg": i_avg,
         "led_current_low": drop.average_current(vlo, fr, c * (1 - ctol), vbus, vd),
         "led_current_high": drop.average_current(vhi, fr, c_hi, vbus, vd),
         "led_current_other_frequency": drop.average_current(vn, other, c, vbus, vd),
@@ -344,35 +623,117 @@ def _dropper(v: V) -> Result:
         "capacitor_current_rms_high": i_cap_hi,
         "capacitor_peak_voltage": drop.capacitor_peak_voltage(vhi, vbus, vd),
         "capacitor_ac_rating": vhi,
-        "capacitance_needed": c_need, "bank_count": bank,
-        "bleeder_max": r_max, "bleeder": r_b, "bleeder_discharge_time": t_b,
-        "bleeder_power": vhi**2 / r_b, "bleeder_working_voltage": pk_hi,
+        "capacitance_needed": c_need,
+        "bank_count": bank,
+        "bleeder_max": r_max,
+        "bleeder": r_b,
+        "bleeder_discharge_time": t_b,
+        "bleeder_power": vhi**2 / r_b,
+        "bleeder_working_voltage": pk_hi,
         "bleeder_parts": float(max(1, math.ceil(pk_hi / 200.0))),
-        "switch_on_peak": drop.switch_on_peak(pk_hi, rs), "pulse_energy": drop.pulse_energy(c_hi, pk_hi),
+        "switch_on_peak": drop.switch_on_peak(pk_hi, rs),
+        "pulse_energy": drop.pulse_energy(c_hi, pk_hi),
         "series_resistor_power": i_cap_hi**2 * rs,
-    }  # fmt: skip
+    }
     return Result(vals, tuple(rows), notes, tuple(warnings))
 
 
 DROPPER = Calculator(
-    "dropper", "Dropper capacitor", "Capacitor, current, bank steps, bleeder and surge for a capacitive dropper feeding a bridge.",
+    "dropper",
+    "Dropper capacitor",
+    "Capacitor, current, bank steps, bleeder and surge for a capacitive dropper feeding a bridge.",
     (
         *mains_params(),
-        Param("capacitance", "Dropper capacitance", "capacitance", "1 µF", "The X2 capacitor (or bank) in series with the line.", 1e-12, 1e-2, exclusive_min=True),
+        Param(
+            "capacitance",
+            "Dropper capacitance",
+            "capacitance",
+            "1 µF",
+            "The X2 capacitor (or bank) in series with the line.",
+            1e-12,
+            1e-2,
+            exclusive_min=True,
+        ),
         Param("cap_tolerance", "Capacitor tolerance (±)", "ratio", "10 %", "", 0.0, 0.5),
-        Param("bus_voltage", "Bus (LED string) voltage", "voltage", "100 V", "Voltage the smoothing capacitor holds: the string voltage.", 0.0, 1000.0),
-        Param("diode_drop", "Bridge diode drop (each)", "voltage", "0.9 V", "Two diodes conduct at a time.", 0.0, 5.0),
-        Param("series_resistance", "Series resistor", "resistance", "100 Ω", "Surge limiter in the line.", 0.0, 1e5),
-        Param("target_current", "Target LED current", "current", None, "If given, the capacitance that delivers it.", 0.0, 10.0, exclusive_min=True),
-        Param("stock_capacitance", "Stock capacitor value", "capacitance", None, "If given, how many in parallel, and the current at each step of the bank.", 1e-12, 1e-2, exclusive_min=True),
+        Param(
+            "bus_voltage",
+            "Bus (LED string) voltage",
+            "voltage",
+            "100 V",
+            "Voltage the smoothing capacitor holds: the string voltage.",
+            0.0,
+            1000.0,
+        ),
+        Param(
+            "diode_drop",
+            "Bridge diode drop (each)",
+            "voltage",
+            "0.9 V",
+            "Two diodes conduct at a time.",
+            0.0,
+            5.0,
+        ),
+        Param(
+            "series_resistance",
+            "Series resistor",
+            "resistance",
+            "100 Ω",
+            "Surge limiter in the line.",
+            0.0,
+            1e5,
+        ),
+        Param(
+            "target_current",
+            "Target LED current",
+            "current",
+            None,
+            "If given, the capacitance that delivers it.",
+            0.0,
+            10.0,
+            exclusive_min=True,
+        ),
+        Param(
+            "stock_capacitance",
+            "Stock capacitor value",
+            "capacitance",
+            None,
+            "If given, how many in parallel, and the current at each step of the bank.",
+            1e-12,
+            1e-2,
+            exclusive_min=True,
+        ),
         Param("discharge_time", "Discharge time target", "time", "1 s", "", 0.0, 600.0, exclusive_min=True),
-        Param("discharge_voltage", "Discharge voltage target", "voltage", "34 V", "", 0.0, 1000.0, exclusive_min=True),
-        Param("bleeder", "Bleeder resistor", "resistance", None, "Blank: the next E12 value below the largest that meets the target.", 0.0, 1e9, exclusive_min=True),
+        Param(
+            "discharge_voltage",
+            "Discharge voltage target",
+            "voltage",
+            "34 V",
+            "",
+            0.0,
+            1000.0,
+            exclusive_min=True,
+        ),
+        Param(
+            "bleeder",
+            "Bleeder resistor",
+            "resistance",
+            None,
+            "Blank: the next E12 value below the largest that meets the target.",
+            0.0,
+            1e9,
+            exclusive_min=True,
+        ),
     ),
     (
-        Output("peak_voltage", "Mains peak", "voltage"), Output("reactance", "Reactance Xc", "resistance"),
+        Output("peak_voltage", "Mains peak", "voltage"),
+        Output("reactance", "Reactance Xc", "resistance"),
         Output("current_naive", "Naive current V/Xc (rms)", "current"),
-        Output("led_current_avg", "LED current, average", "current", "Charge balance, nominal mains and capacitance."),
+        Output(
+            "led_current_avg",
+            "LED current, average",
+            "current",
+            "Charge balance, nominal mains and capacitance.",
+        ),
         Output("led_current_low", "LED current, low mains and low C", "current"),
         Output("led_current_high", "LED current, high mains and high C", "current"),
         Output("led_current_other_frequency", "LED current on the other mains frequency", "current"),
@@ -382,20 +743,29 @@ DROPPER = Calculator(
         Output("capacitor_ac_rating", "Capacitor AC rating at least", "voltage"),
         Output("capacitance_needed", "Capacitance for the target", "capacitance"),
         Output("bank_count", "Stock capacitors in parallel", "count"),
-        Output("bleeder_max", "Bleeder, largest allowed", "resistance"), Output("bleeder", "Bleeder", "resistance"),
-        Output("bleeder_discharge_time", "Bleeder discharge time", "time"), Output("bleeder_power", "Bleeder dissipation, high mains", "power"),
-        Output("bleeder_working_voltage", "Bleeder working voltage", "voltage"), Output("bleeder_parts", "Bleeder resistors in series", "count"),
-        Output("switch_on_peak", "Switch-on peak current", "current"), Output("pulse_energy", "Switch-on pulse energy in the resistor", "energy"),
+        Output("bleeder_max", "Bleeder, largest allowed", "resistance"),
+        Output("bleeder", "Bleeder", "resistance"),
+        Output("bleeder_discharge_time", "Bleeder discharge time", "time"),
+        Output("bleeder_power", "Bleeder dissipation, high mains", "power"),
+        Output("bleeder_working_voltage", "Bleeder working voltage", "voltage"),
+        Output("bleeder_parts", "Bleeder resistors in series", "count"),
+        Output("switch_on_peak", "Switch-on peak current", "current"),
+        Output("pulse_energy", "Switch-on pulse energy in the resistor", "energy"),
         Output("series_resistor_power", "Series resistor dissipation", "power"),
     ),
     _dropper,
     mains=True,
-    columns=(Output("step", "Capacitors", "count"), Output("capacitance", "C", "capacitance"), Output("led_current_avg", "LED current", "current")),
+    columns=(
+        Output("step", "Capacitors", "count"),
+        Output("capacitance", "C", "capacitance"),
+        Output("led_current_avg", "LED current", "current"),
+    ),
     plots=("current_vs_mains",),
-)  # fmt: skip
+)
 
 
 # --- ripple ---------------------------------------------------------------------
+
 
 def _ripple(v: V) -> Result:
     i, c, fr = f(v, "load_current"), f(v, "capacitance"), f(v, "frequency")
@@ -404,63 +774,113 @@ def _ripple(v: V) -> Result:
     s, p = int(f(v, "series")), int(f(v, "parallel"))
     r_string = s * f(v, "r_dynamic") + f(v, "ballast")
     if r_string <= 0:
-        raise InputError("r_dynamic", format_value(f(v, "r_dynamic"), "resistance"),
-                         "a module Rd or a ballast above 0 Ω (with neither, the current ripple is unbounded)")  # fmt: skip
+        raise InputError(
+            "r_dynamic",
+            format_value(f(v, "r_dynamic"), "resistance"),
+            "a module Rd or a ballast above 0 Ω (with neither, the current ripple is unbounded)",
+        )
     di = rip.current_ripple(pp, r_string, p)
     pf = rip.percent_flicker_from_ripple(i, di)
     ripple_f = (2 if full else 1) * fr
     band = ieee1789_band(pf, ripple_f)
-    notes = ["ΔV ≈ I/(2·f·C) assumes the capacitor alone carries the load for the whole ripple period; it overstates the ripple."]
+    notes = [
+        "ΔV ≈ I/(2·f·C) assumes the capacitor alone carries the load for the whole ripple period; "
+        "it overstates the ripple."
+    ]
     warnings = []
     bus = opt(v, "bus_voltage")
     if bus and pp > 0.1 * bus:
-        warnings.append("Ripple is over 10 % of the bus: the closed form is a rough upper bound here; solve the steady state.")
+        warnings.append(
+            "Ripple is over 10 % of the bus: the closed form is a rough upper bound here; solve the steady state."
+        )
     if di >= 2 * i:
-        warnings.append("Current ripple reaches zero each cycle: the LEDs go dark between peaks and the closed form no longer holds.")
+        warnings.append(
+            "Current ripple reaches zero each cycle: the LEDs go dark between peaks "
+            "and the closed form no longer holds."
+        )
     elif di > 0.2 * i:
-        warnings.append("Current ripple is large against the mean: the straight-line estimate is rough; solve the steady state.")
+        warnings.append(
+            "Current ripple is large against the mean: the straight-line estimate is rough; solve the steady state."
+        )
     notes.append(f"Flicker band: {band.source}.")
     target = opt(v, "target_ripple")
     return Result(
         {
-            "ripple_pp": pp, "ripple_rms": rip.sawtooth_rms(pp), "ripple_frequency": ripple_f,
+            "ripple_pp": pp,
+            "ripple_rms": rip.sawtooth_rms(pp),
+            "ripple_frequency": ripple_f,
             "capacitance_for_target": rip.capacitance_for_ripple(i, fr, target, full) if target else None,
-            "led_ripple_pp": di, "percent_flicker": pf / 100.0, "flicker_band": band.name,
-            "low_risk_limit": band.low_risk_limit / 100.0, "no_effect_limit": band.no_effect_limit / 100.0,
+            "led_ripple_pp": di,
+            "percent_flicker": pf / 100.0,
+            "flicker_band": band.name,
+            "low_risk_limit": band.low_risk_limit / 100.0,
+            "no_effect_limit": band.no_effect_limit / 100.0,
         },
-        notes=tuple(notes), warnings=tuple(warnings),
-    )  # fmt: skip
+        notes=tuple(notes),
+        warnings=tuple(warnings),
+    )
 
 
 RIPPLE = Calculator(
-    "ripple", "Smoothing ripple", "Bus ripple, LED current ripple and flicker from the smoothing capacitor, closed form.",
+    "ripple",
+    "Smoothing ripple",
+    "Bus ripple, LED current ripple and flicker from the smoothing capacitor, closed form.",
     (
         Param("load_current", "LED (load) current", "current", "20 mA", "", 0.0, 100.0, exclusive_min=True),
-        Param("capacitance", "Smoothing capacitance", "capacitance", "100 µF", "", 1e-12, 10.0, exclusive_min=True),
+        Param(
+            "capacitance",
+            "Smoothing capacitance",
+            "capacitance",
+            "100 µF",
+            "",
+            1e-12,
+            10.0,
+            exclusive_min=True,
+        ),
         Param("frequency", "Mains frequency", "frequency", "50 Hz", "", 1.0, 1000.0),
-        Param("rectifier", "Rectifier", "choice", "full", "full: bridge (ripple at twice mains); half: one diode.", choices=("full", "half")),
+        Param(
+            "rectifier",
+            "Rectifier",
+            "choice",
+            "full",
+            "full: bridge (ripple at twice mains); half: one diode.",
+            choices=("full", "half"),
+        ),
         Param("series", "Modules per string", "count", "36", "", 1, 1000),
         Param("parallel", "Strings in parallel", "count", "1", "", 1, 1000),
         Param("r_dynamic", "Module dynamic resistance", "resistance", "2 Ω", "", 0.0, 1e6),
         Param("ballast", "Ballast per string", "resistance", "0 Ω", "", 0.0, 1e6),
         Param("bus_voltage", "Bus voltage", "voltage", "100 V", "For the validity check.", 0.0, 1000.0),
-        Param("target_ripple", "Target ripple (p-p)", "voltage", None, "If given, the capacitance that meets it.", 0.0, 1000.0, exclusive_min=True),
+        Param(
+            "target_ripple",
+            "Target ripple (p-p)",
+            "voltage",
+            None,
+            "If given, the capacitance that meets it.",
+            0.0,
+            1000.0,
+            exclusive_min=True,
+        ),
     ),
     (
-        Output("ripple_pp", "Bus ripple (p-p)", "voltage"), Output("ripple_rms", "Bus ripple (rms, sawtooth)", "voltage"),
+        Output("ripple_pp", "Bus ripple (p-p)", "voltage"),
+        Output("ripple_rms", "Bus ripple (rms, sawtooth)", "voltage"),
         Output("ripple_frequency", "Ripple frequency", "frequency"),
         Output("capacitance_for_target", "Capacitance for the target", "capacitance"),
-        Output("led_ripple_pp", "LED current ripple (p-p)", "current"), Output("percent_flicker", "Percent flicker", "ratio"),
-        Output("flicker_band", "IEEE 1789 band", "text"), Output("low_risk_limit", "Low-risk limit", "ratio"),
+        Output("led_ripple_pp", "LED current ripple (p-p)", "current"),
+        Output("percent_flicker", "Percent flicker", "ratio"),
+        Output("flicker_band", "IEEE 1789 band", "text"),
+        Output("low_risk_limit", "Low-risk limit", "ratio"),
         Output("no_effect_limit", "No-observable-effect limit", "ratio"),
     ),
     _ripple,
     mains=True,
     plots=("ripple_vs_capacitance",),
-)  # fmt: skip
+)
 
 
 # --- wire ------------------------------------------------------------------------
+
 
 def _wire(v: V) -> Result:
     area = f(v, "size")
@@ -478,7 +898,9 @@ def _wire(v: V) -> Result:
     if r.drop_fraction is not None and r.drop_fraction > limit:
         warnings.append(f"Drop {r.drop_fraction:.1%} is over the {limit:.0%} limit.")
     if amp is not None and i > amp:
-        warnings.append(f"{format_value(i, 'current')} is over the {format_value(amp, 'current')} the table gives this size.")
+        warnings.append(
+            f"{format_value(i, 'current')} is over the {format_value(amp, 'current')} the table gives this size."
+        )
     iec = wire.iec60228_max(size)
     notes = [
         "Resistance: annealed copper at 100 % IACS (1/58 Ω·mm²/m at 20 °C), α = 0.00393 /K referred to 20 °C.",
@@ -487,43 +909,92 @@ def _wire(v: V) -> Result:
     ]
     return Result(
         {
-            "size_name": size.name, "diameter": size.diameter, "area": size.area,
-            "resistance_per_m_20": wire.resistance_per_metre(size.area, 20.0), "resistance_per_m": r.resistance_per_m,
-            "iec60228_max_per_m": iec, "loop_resistance": r.loop_resistance, "drop": r.drop,
-            "drop_fraction": r.drop_fraction, "loss": r.loss, "ampacity": amp, "ampacity_table": f"{table}: {tab.source}",
+            "size_name": size.name,
+            "diameter": size.diameter,
+            "area": size.area,
+            "resistance_per_m_20": wire.resistance_per_metre(size.area, 20.0),
+            "resistance_per_m": r.resistance_per_m,
+            "iec60228_max_per_m": iec,
+            "loop_resistance": r.loop_resistance,
+            "drop": r.drop,
+            "drop_fraction": r.drop_fraction,
+            "loss": r.loss,
+            "ampacity": amp,
+            "ampacity_table": f"{table}: {tab.source}",
             "smallest_size": best.name if best else why,
         },
-        notes=tuple(notes), warnings=tuple(warnings),
-    )  # fmt: skip
+        notes=tuple(notes),
+        warnings=tuple(warnings),
+    )
 
 
 WIRE = Calculator(
-    "wire", "Wire run", "Resistance, drop and loss of a two-wire run, the smallest size for a limit, and ampacity guidance.",
+    "wire",
+    "Wire run",
+    "Resistance, drop and loss of a two-wire run, the smallest size for a limit, and ampacity guidance.",
     (
-        Param("size", "Conductor size", "area", "0.75 mm²", "An AWG gauge ('18 AWG') or a metric area ('0.75 mm²').", 1e-9, 1e-3, imperial="18 AWG"),
+        Param(
+            "size",
+            "Conductor size",
+            "area",
+            "0.75 mm²",
+            "An AWG gauge ('18 AWG') or a metric area ('0.75 mm²').",
+            1e-9,
+            1e-3,
+            imperial="18 AWG",
+        ),
         Param("length", "Run length (one way)", "length", "5 m", "", 0.0, 1e5, imperial="15 ft"),
         Param("current", "Current", "current", "1 A", "", 0.0, 1000.0),
-        Param("supply_voltage", "Supply voltage", "voltage", "24 V", "For the drop as a fraction.", 0.0, 1e5, exclusive_min=True),
+        Param(
+            "supply_voltage",
+            "Supply voltage",
+            "voltage",
+            "24 V",
+            "For the drop as a fraction.",
+            0.0,
+            1e5,
+            exclusive_min=True,
+        ),
         Param("temperature", "Conductor temperature", "temperature", "20 °C", "", -60.0, 250.0),
-        Param("drop_limit", "Drop limit", "ratio", "3 %", "3 % is a common limit for lighting; low-voltage LED feeds 3-5 % (common practice).", 0.001, 0.5),
-        Param("ampacity_table", "Ampacity table", "choice", "auto", "auto: US cord table for AWG, IEC 60335-1 cord table for metric.",
-              choices=("auto", *wire.AMPACITY)),
+        Param(
+            "drop_limit",
+            "Drop limit",
+            "ratio",
+            "3 %",
+            "3 % is a common limit for lighting; low-voltage LED feeds 3-5 % (common practice).",
+            0.001,
+            0.5,
+        ),
+        Param(
+            "ampacity_table",
+            "Ampacity table",
+            "choice",
+            "auto",
+            "auto: US cord table for AWG, IEC 60335-1 cord table for metric.",
+            choices=("auto", *wire.AMPACITY),
+        ),
     ),
     (
-        Output("size_name", "Size", "text"), Output("diameter", "Diameter (solid)", "length"), Output("area", "Area", "area"),
+        Output("size_name", "Size", "text"),
+        Output("diameter", "Diameter (solid)", "length"),
+        Output("area", "Area", "area"),
         Output("resistance_per_m_20", "Resistance per metre at 20 °C", "resistance"),
         Output("resistance_per_m", "Resistance per metre at temperature", "resistance"),
         Output("iec60228_max_per_m", "IEC 60228 class 5 maximum per metre", "resistance"),
-        Output("loop_resistance", "Loop resistance (out and back)", "resistance"), Output("drop", "Voltage drop", "voltage"),
-        Output("drop_fraction", "Drop (fraction of supply)", "ratio"), Output("loss", "Power lost in the run", "power"),
-        Output("ampacity", "Guidance current for this size", "current"), Output("ampacity_table", "From table", "text"),
+        Output("loop_resistance", "Loop resistance (out and back)", "resistance"),
+        Output("drop", "Voltage drop", "voltage"),
+        Output("drop_fraction", "Drop (fraction of supply)", "ratio"),
+        Output("loss", "Power lost in the run", "power"),
+        Output("ampacity", "Guidance current for this size", "current"),
+        Output("ampacity_table", "From table", "text"),
         Output("smallest_size", "Smallest size for the current and limit", "text"),
     ),
     _wire,
-)  # fmt: skip
+)
 
 
 # --- preferred values ---------------------------------------------------------------
+
 
 def _preferred(v: V) -> Result:
     x = f(v, "value")
@@ -532,48 +1003,94 @@ def _preferred(v: V) -> Result:
 
 
 PREFERRED = Calculator(
-    "preferred", "Preferred values", "IEC 60063 E6/E12/E24: nearest, next up, next down.",
+    "preferred",
+    "Preferred values",
+    "IEC 60063 E6/E12/E24: nearest, next up, next down.",
     (
-        Param("value", "Value", "count", "4200", "A plain number (ohms, farads...).", 0.0, 1e15, exclusive_min=True),
+        Param(
+            "value",
+            "Value",
+            "count",
+            "4200",
+            "A plain number (ohms, farads...).",
+            0.0,
+            1e15,
+            exclusive_min=True,
+        ),
         Param("series", "Series", "choice", "E24", "", choices=tuple(SERIES)),
     ),
-    (Output("nearest", "Nearest", "count"), Output("up", "Next up", "count"), Output("down", "Next down", "count"),
-     Output("error", "Nearest is off by", "ratio")),
+    (
+        Output("nearest", "Nearest", "count"),
+        Output("up", "Next up", "count"),
+        Output("down", "Next down", "count"),
+        Output("error", "Nearest is off by", "ratio"),
+    ),
     _preferred,
-)  # fmt: skip
+)
 
 
 # --- mains presets -------------------------------------------------------------------
 
+
 def _mains(v: V) -> Result:
     rows: tuple[Mapping[str, Value], ...] = tuple(
-        {"preset": k, "voltage": p.voltage, "frequency": p.frequency, "low": p.low, "high": p.high,
-         "peak_high": p.peak_high, "source": p.source}
+        {
+            "preset": k,
+            "voltage": p.voltage,
+            "frequency": p.frequency,
+            "low": p.low,
+            "high": p.high,
+            "peak_high": p.peak_high,
+            "source": p.source,
+        }
         for k, p in PRESETS.items()
-    )  # fmt: skip
+    )
     p = PRESETS[str(v["region"])] if v["region"] != "custom" else None
     vals: dict[str, Value] = {"voltage": f(v, "mains_voltage"), "frequency": f(v, "frequency")}
     vn, lo, hi, _ = mains_range(v)
-    vals.update({"low": lo, "high": hi, "peak": math.sqrt(2) * vn, "peak_high": math.sqrt(2) * hi,
-                 "source": p.source if p else "custom values"})  # fmt: skip
+    vals.update(
+        {
+            "low": lo,
+            "high": hi,
+            "peak": math.sqrt(2) * vn,
+            "peak_high": math.sqrt(2) * hi,
+            "source": p.source if p else "custom values",
+        }
+    )
     return Result(vals, rows)
 
 
 MAINS = Calculator(
-    "mains", "Mains presets", "Regional mains voltage, frequency and tolerance bands with their sources.",
+    "mains",
+    "Mains presets",
+    "Regional mains voltage, frequency and tolerance bands with their sources.",
     mains_params(),
-    (Output("voltage", "Nominal", "voltage"), Output("frequency", "Frequency", "frequency"), Output("low", "Low end", "voltage"),
-     Output("high", "High end", "voltage"), Output("peak", "Peak at nominal", "voltage"), Output("peak_high", "Peak at high end", "voltage"),
-     Output("source", "Band from", "text")),
+    (
+        Output("voltage", "Nominal", "voltage"),
+        Output("frequency", "Frequency", "frequency"),
+        Output("low", "Low end", "voltage"),
+        Output("high", "High end", "voltage"),
+        Output("peak", "Peak at nominal", "voltage"),
+        Output("peak_high", "Peak at high end", "voltage"),
+        Output("source", "Band from", "text"),
+    ),
     _mains,
     mains=True,
-    columns=(Output("preset", "Preset", "text"), Output("voltage", "Nominal", "voltage"), Output("frequency", "f", "frequency"),
-             Output("low", "Low", "voltage"), Output("high", "High", "voltage"), Output("peak_high", "Peak, high", "voltage"),
-             Output("source", "Source", "text")),
-)  # fmt: skip
+    columns=(
+        Output("preset", "Preset", "text"),
+        Output("voltage", "Nominal", "voltage"),
+        Output("frequency", "f", "frequency"),
+        Output("low", "Low", "voltage"),
+        Output("high", "High", "voltage"),
+        Output("peak_high", "Peak, high", "voltage"),
+        Output("source", "Source", "text"),
+    ),
+)
 
 
-CALCULATORS: dict[str, Calculator] = {c.name: c for c in (DROPPER, STRING, RIPPLE, WIRE, MODULE, PREFERRED, MAINS, QUANTITY)}
+CALCULATORS: dict[str, Calculator] = {
+    c.name: c for c in (DROPPER, STRING, RIPPLE, WIRE, MODULE, PREFERRED, MAINS, QUANTITY)
+}
 
 
 def get(name: str) -> Calculator:
@@ -581,4 +1098,3 @@ def get(name: str) -> Calculator:
         return CALCULATORS[name]
     except KeyError:
         raise InputError("calculator", name, "one of " + ", ".join(CALCULATORS)) from None
-

@@ -4,11 +4,11 @@ from __future__ import annotations
 
 from typing import Any
 
-from .check import check
-from .design import parse_design
 from .errors import CalcError, InputError, InputErrors, NoSolutionError
-from .sheet import render
-from .tolerance import study
+from .fixture.check import check
+from .fixture.design import parse_design
+from .fixture.tolerance import study
+from .present.sheet import render
 
 
 def handle(kind: str, req: dict[str, Any]) -> dict[str, Any]:

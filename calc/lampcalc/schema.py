@@ -15,8 +15,8 @@ from dataclasses import dataclass
 
 from . import cautions
 from .errors import InputError, InputErrors
-from .regions import PRESETS
-from .units import format_value, parse
+from .quantities.regions import PRESETS
+from .quantities.units import format_value, parse
 
 Value = float | str | None
 
@@ -97,7 +97,9 @@ def parse_inputs(calc: Calculator, raw: Mapping[str, object]) -> dict[str, Value
     known = {p.name for p in calc.params}
     for key in raw:
         if key not in known:
-            errors.append(InputError(key, raw[key], "one of the inputs of " + calc.name + ": " + ", ".join(sorted(known))))
+            errors.append(
+                InputError(key, raw[key], "one of the inputs of " + calc.name + ": " + ", ".join(sorted(known)))
+            )
     out: dict[str, Value] = {}
     region_key = None
     for p in calc.params:
@@ -201,7 +203,9 @@ def describe(calc: Calculator) -> dict[str, object]:
                 "default": p.default,
                 "imperial": p.imperial,
                 "help": p.help,
-                "choices": list(p.choices) if p.dim == "choice" else ([*PRESETS, "custom"] if p.dim == "region" else []),
+                "choices": list(p.choices)
+                if p.dim == "choice"
+                else ([*PRESETS, "custom"] if p.dim == "region" else []),
                 "modes": list(p.modes),
                 "minimum": p.minimum,
                 "maximum": p.maximum,
@@ -216,9 +220,12 @@ def describe(calc: Calculator) -> dict[str, object]:
 
 def region_presets() -> dict[str, dict[str, object]]:
     return {
-        k: {"voltage": format_value(p.voltage, "voltage"), "frequency": format_value(p.frequency, "frequency"),
-            "tolerance": format_value(max(p.plus, p.minus), "ratio"), "label": p.label, "source": p.source}
+        k: {
+            "voltage": format_value(p.voltage, "voltage"),
+            "frequency": format_value(p.frequency, "frequency"),
+            "tolerance": format_value(max(p.plus, p.minus), "ratio"),
+            "label": p.label,
+            "source": p.source,
+        }
         for k, p in PRESETS.items()
-    }  # fmt: skip
-
-
+    }

@@ -4,7 +4,7 @@ from mkdocs.config import base
 from mkdocs.config import config_options as c
 
 
-class LampbookConfig(base.Config):
+class LampbookConfig(base.Config):  # type: ignore[no-untyped-call]  # mkdocs leaves __init_subclass__ untyped
     enabled = c.Type(bool, default=True)
     """Turn the plugin off (calculator blocks are then left as code)."""
 

@@ -16,10 +16,18 @@ from .config import LampbookConfig
 
 log = get_plugin_logger(__name__)
 ASSETS = Path(__file__).resolve().parent.parent / "assets"
-SITE_ASSETS = ("lampbook.css", "widget.js", "worker.js", "icon.svg", "icon-192.png", "icon-512.png", "offline.html")
+SITE_ASSETS = (
+    "lampbook.css",
+    "widget.js",
+    "worker.js",
+    "icon.svg",
+    "icon-192.png",
+    "icon-512.png",
+    "offline.html",
+)
 
 
-class LampbookPlugin(BasePlugin[LampbookConfig]):
+class LampbookPlugin(BasePlugin[LampbookConfig]):  # type: ignore[no-untyped-call]  # as above
     def on_config(self, config: Any) -> Any:
         if not self.config.enabled:
             return config
@@ -29,7 +37,7 @@ class LampbookPlugin(BasePlugin[LampbookConfig]):
         s = ExtraScriptValue("assets/lampbook/widget.js")
         s.type = "module"
         config.extra_javascript.append(s)
-        self._safety = None
+        self._safety: str | None = None
         return config
 
     def on_files(self, files: Any, config: Any) -> Any:
@@ -68,10 +76,13 @@ class LampbookPlugin(BasePlugin[LampbookConfig]):
         if not self.config.enabled:
             return output
         base = "../" * page.url.count("/") if page.url else ""
+        site_json = json.dumps(
+            {"root": base or "./", "timeout": self.config.load_timeout, "engine": self.config.engine}
+        )
         meta = (
             f'<link rel="manifest" href="{base}manifest.webmanifest">'
             f'<meta name="theme-color" content="#26323a">'
-            f'<script type="application/json" id="lb-site">{json.dumps({"root": base or "./", "timeout": self.config.load_timeout, "engine": self.config.engine})}</script>'
+            f'<script type="application/json" id="lb-site">{site_json}</script>'
         )
         return output.replace("</head>", meta + "</head>", 1)
 
@@ -85,19 +96,28 @@ class LampbookPlugin(BasePlugin[LampbookConfig]):
             shutil.copyfile(ASSETS / name, dest / name)
         shutil.copyfile(ASSETS / "offline.html", site / "offline.html")
         manifest = {
-            "name": config.site_name, "short_name": config.site_name[:12], "start_url": "./", "scope": "./", "display": "standalone",
-            "background_color": "#f4f1ea", "theme_color": "#26323a",
-            "icons": [{"src": "assets/lampbook/icon-192.png", "sizes": "192x192", "type": "image/png"},
-                      {"src": "assets/lampbook/icon-512.png", "sizes": "512x512", "type": "image/png"},
-                      {"src": "assets/lampbook/icon.svg", "sizes": "any", "type": "image/svg+xml"}],
-        }  # fmt: skip
+            "name": config.site_name,
+            "short_name": config.site_name[:12],
+            "start_url": "./",
+            "scope": "./",
+            "display": "standalone",
+            "background_color": "#f4f1ea",
+            "theme_color": "#26323a",
+            "icons": [
+                {"src": "assets/lampbook/icon-192.png", "sizes": "192x192", "type": "image/png"},
+                {"src": "assets/lampbook/icon-512.png", "sizes": "512x512", "type": "image/png"},
+                {"src": "assets/lampbook/icon.svg", "sizes": "any", "type": "image/svg+xml"},
+            ],
+        }
         (site / "manifest.webmanifest").write_text(json.dumps(manifest, indent=1, sort_keys=True))
         if not self.config.engine:
             return
         try:
             here = Path(config.config_file_path).parent
             runtime = bundle.find_runtime(self.config.runtime, str(here))
-            stdlib = bundle.compiled_stdlib(runtime, here / self.config.cache_dir) if self.config.compile_stdlib else None
+            stdlib = (
+                bundle.compiled_stdlib(runtime, here / self.config.cache_dir) if self.config.compile_stdlib else None
+            )
             bundle.install_engine(site, runtime, stdlib)
         except bundle.BundleError as e:
             raise PluginError(f"lampbook: {e}") from None

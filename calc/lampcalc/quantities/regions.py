@@ -6,7 +6,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from .errors import InputError
+from ..errors import InputError
 
 
 @dataclass(frozen=True)
@@ -44,7 +44,15 @@ _ENVELOPE = (
 PRESETS: dict[str, MainsPreset] = {
     p.key: p
     for p in (
-        MainsPreset("120-60", 120.0, 60.0, 0.05, 0.05, "ANSI C84.1 Table 1, Range A service voltage (114-126 V)", "secondary copy"),
+        MainsPreset(
+            "120-60",
+            120.0,
+            60.0,
+            0.05,
+            0.05,
+            "ANSI C84.1 Table 1, Range A service voltage (114-126 V)",
+            "secondary copy",
+        ),
         MainsPreset("230-50", 230.0, 50.0, 0.10, 0.10, "IEC 60038 (230 V +/-10 %, 207-253 V)", "published"),
         MainsPreset("240-50", 240.0, 50.0, 0.10, 0.06, _ENVELOPE, "secondary copy"),
         MainsPreset("100-50", 100.0, 50.0, 0.10, 0.06, _ENVELOPE, "secondary copy"),

@@ -7,8 +7,8 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
+from ..quantities.eseries import next_up
 from . import dropper as drop
-from .eseries import next_up
 from .led import LedModule
 
 #: Headroom below which a ballasted string's current swings widely with Vf

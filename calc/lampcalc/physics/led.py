@@ -11,7 +11,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass, replace
 
-from .errors import InputError
+from ..errors import InputError
 
 #: Default forward-voltage temperature coefficient per module, V/K. This is
 #: the textbook value for one InGaN die (-3 mV/K); a module with several dies
@@ -43,9 +43,7 @@ class LedModule:
             raise InputError("vf_tempco", self.vf_tempco, "a temperature coefficient between -1 V/K and 1 V/K")
 
     @classmethod
-    def from_points(
-        cls, i1: float, v1: float, i2: float, v2: float, **kw: float
-    ) -> LedModule:
+    def from_points(cls, i1: float, v1: float, i2: float, v2: float, **kw: float) -> LedModule:
         """Fit the straight line through two datasheet points (I, V)."""
         if i1 <= 0 or i2 <= 0:
             raise InputError("points", (i1, i2), "two positive currents")
@@ -56,7 +54,9 @@ class LedModule:
             raise InputError("points", ((i1, v1), (i2, v2)), "a voltage that rises with current")
         v0 = v1 - rd * i1
         if v0 <= 0:
-            raise InputError("points", ((i1, v1), (i2, v2)), "points whose straight line crosses zero current above 0 V")
+            raise InputError(
+                "points", ((i1, v1), (i2, v2)), "points whose straight line crosses zero current above 0 V"
+            )
         return cls(v0=v0, r_dynamic=rd, **kw)
 
     def v0_at(self, temperature: float = REFERENCE_TEMPERATURE, corner: float = 0) -> float:

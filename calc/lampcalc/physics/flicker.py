@@ -11,7 +11,7 @@ from __future__ import annotations
 from collections.abc import Sequence
 from dataclasses import dataclass
 
-from .errors import InputError
+from ..errors import InputError
 
 
 def percent_flicker(samples: Sequence[float]) -> float:

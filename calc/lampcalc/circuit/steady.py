@@ -26,8 +26,8 @@ import math
 from collections.abc import Sequence
 from dataclasses import dataclass, field
 
-from .errors import ConvergenceError, InputError, NoSolutionError
-from .flicker import ieee1789_band
+from ..errors import ConvergenceError, InputError, NoSolutionError
+from ..physics.flicker import ieee1789_band
 
 Vec = tuple[float, float]
 Mat = tuple[float, float, float, float]  # row major a, b, c, d
@@ -110,7 +110,9 @@ class Circuit:
             if x is None and allow_none:
                 return
             if x is None or not math.isfinite(x) or x < 0 or (x == 0 and not allow_zero):
-                raise InputError(name, x, "a positive finite value" if not allow_zero else "a finite value of 0 or more")
+                raise InputError(
+                    name, x, "a positive finite value" if not allow_zero else "a finite value of 0 or more"
+                )
 
         pos("mains.voltage", self.mains_voltage)
         pos("mains.frequency", self.frequency)
@@ -134,17 +136,26 @@ class Circuit:
         if self.series_resistance + 2 * b.resistance <= 0 and b.kind == "line":
             raise InputError("bridge.resistance", b.resistance, "more than 0 Ω when there is no series resistance")
         if self.dropper is None and self.series_resistance + 2 * b.resistance <= 0:
-            raise InputError("dropper.series_resistance", self.series_resistance, "a source resistance above 0 Ω when there is no dropper")
+            raise InputError(
+                "dropper.series_resistance",
+                self.series_resistance,
+                "a source resistance above 0 Ω when there is no dropper",
+            )
         for k, s in enumerate(self.strings):
             if not (s.knee >= 0 and math.isfinite(s.knee)):
                 raise InputError(f"strings[{k}].knee", s.knee, "a knee voltage of 0 V or more")
             if not (s.resistance > 0 and math.isfinite(s.resistance)):
-                raise InputError(f"strings[{k}].resistance", s.resistance, "a string resistance above 0 Ω (module Rd or a ballast)")
+                raise InputError(
+                    f"strings[{k}].resistance",
+                    s.resistance,
+                    "a string resistance above 0 Ω (module Rd or a ballast)",
+                )
             if s.count < 1:
                 raise InputError(f"strings[{k}].count", s.count, "at least one string")
 
 
 # --- small linear algebra -------------------------------------------------------
+
 
 def _lin(a: float = 0.0, b: float = 0.0, c: float = 0.0, d: float = 0.0) -> Lin:
     return (a, b, c, d)
@@ -194,7 +205,7 @@ class Mode:
         "sigma",
         "strings_g",
         "vb_lin",
-    )  # fmt: skip
+    )
 
     def __init__(self, sol: Solver, sigma: int, chord: int, on: tuple[bool, ...]) -> None:
         c = sol.c
@@ -359,7 +370,9 @@ class Solver:
                 sigma = 1 if k == 0 else -1
                 for j in range(len(self.chords)):
                     mm = self.mode(sigma, j, on)
-                    if (mm.g_hi is None or self.value(mm.g_hi, x, t) >= 0) and self.value(mm.g_lo or _lin(d=1.0), x, t) >= 0:
+                    if (mm.g_hi is None or self.value(mm.g_hi, x, t) >= 0) and self.value(
+                        mm.g_lo or _lin(d=1.0), x, t
+                    ) >= 0:
                         return self._settle_strings(mm, t, x)
                 return self._settle_strings(self.mode(sigma, len(self.chords) - 1, on), t, x)
         return m
@@ -455,7 +468,12 @@ class Solver:
             else:
                 t_end, kind, k = hit
             x_end, E = self.propagate(m, t_seg0, x_seg0, t_end - t_seg0)
-            M = (E[0] * M[0] + E[1] * M[2], E[0] * M[1] + E[1] * M[3], E[2] * M[0] + E[3] * M[2], E[2] * M[1] + E[3] * M[3])
+            M = (
+                E[0] * M[0] + E[1] * M[2],
+                E[0] * M[1] + E[1] * M[3],
+                E[2] * M[0] + E[3] * M[2],
+                E[2] * M[1] + E[3] * M[3],
+            )
             if record:
                 segs.append((t_seg0, t_end, m, x_seg0))
             t, x = t_end, x_end
@@ -479,14 +497,18 @@ class Solver:
             j11, j12, j21, j22 = -M[0] - 1, -M[1], M[2], M[3] - 1
             det = j11 * j22 - j12 * j21
             if det == 0 or not math.isfinite(det):
-                raise ConvergenceError("Jacobian", "the half-period map is singular (a state that no current ever reaches)")
+                raise ConvergenceError(
+                    "Jacobian", "the half-period map is singular (a state that no current ever reaches)"
+                )
             dx = ((j22 * r[0] - j12 * r[1]) / det, (-j21 * r[0] + j11 * r[1]) / det)
             step = 1.0
             if norm > last:
                 step = 0.5
             x = (x[0] - step * dx[0], x[1] - step * dx[1])
             last = norm
-        raise ConvergenceError("state after a half period", f"residual still {norm:.3g} V after {max_iter} Newton steps")
+        raise ConvergenceError(
+            "state after a half period", f"residual still {norm:.3g} V after {max_iter} Newton steps"
+        )
 
 
 @dataclass(frozen=True)
@@ -549,6 +571,7 @@ def initial_state(c: Circuit) -> Vec:
             return i if r <= 0 else min(i, head / r)
         r = c.series_resistance + 2 * c.bridge.resistance
         return head / r * 0.3  # short conduction near the crest
+
     lo, hi = 0.0, max(vpk - a0, 0.0)
     for _ in range(60):
         mid = (lo + hi) / 2
@@ -569,10 +592,11 @@ def solve(c: Circuit, points: int = 600, wave_points: int = 200) -> SteadyState:
     a0 = c.bridge.threshold()
     if c.strings and min(s.knee for s in c.strings) >= sol.vpk - a0:
         raise NoSolutionError(
-            "array.series", f"{min(s.knee for s in c.strings):.4g} V knee",
+            "array.series",
+            f"{min(s.knee for s in c.strings):.4g} V knee",
             f"a string knee below the mains peak less the bridge drop ({sol.vpk - a0:.4g} V)",
             "no conduction: the LED strings need more than the mains peak",
-        )  # fmt: skip
+        )
     x0 = sol.solve(initial_state(c))
     _, _, segs = sol.half_period(x0, record=True)
     return _measure(sol, segs, points, wave_points)
@@ -606,7 +630,16 @@ def _measure(sol: Solver, segs: list[tuple[float, float, Mode, Vec]], n: int, nw
         x, _ = sol.propagate(m, t0, x0, t - t0)
         vb = sol.value(m.vb_lin, x, t)
         per = tuple(max(vb - s.knee, 0.0) / s.resistance for s in sol.loads)
-        return (t, sol.vpk * math.sin(sol.omega * t), x[0], x[1], vb, sol.value(m.i_lin, x, t), sol.value(m.ic_lin, x, t), per)
+        return (
+            t,
+            sol.vpk * math.sin(sol.omega * t),
+            x[0],
+            x[1],
+            vb,
+            sol.value(m.i_lin, x, t),
+            sol.value(m.ic_lin, x, t),
+            per,
+        )
 
     nodes = _nodes(segs, half, n)
     rows = [sample(k, t) for k, t, _ in nodes]
@@ -681,7 +714,10 @@ def _measure(sol: Solver, segs: list[tuple[float, float, Mode, Vec]], n: int, nw
         power_factor=pin / s_app if s_app > 0 else 0.0,
         led_power=led_power,
         losses=losses,
-        waveform={k: tuple(w[j] for w in wave) for j, k in enumerate(("t", "mains_V", "line_current_A", "bus_V", "led_current_A"))},
+        waveform={
+            k: tuple(w[j] for w in wave)
+            for j, k in enumerate(("t", "mains_V", "line_current_A", "bus_V", "led_current_A"))
+        },
         iterations=sol.iterations,
         steps=sol.steps,
     )

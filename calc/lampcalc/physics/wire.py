@@ -13,8 +13,8 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from .errors import InputError
-from .units import awg_area, awg_diameter
+from ..errors import InputError
+from ..quantities.units import awg_area, awg_diameter
 
 #: IACS resistivity of annealed copper at 20 °C, ohm metre (1/58 ohm mm²/m).
 RHO_20 = 1.0 / 58.0e6
@@ -78,7 +78,15 @@ AMPACITY: dict[str, AmpacityTable] = {
             "IEC 60335-1 Table 11 (from memory; 0.5 mm² only for cords up to 2 m)",
             "from memory",
             "metric",
-            {"0.5 mm²": 3.0, "0.75 mm²": 6.0, "1 mm²": 10.0, "1.5 mm²": 16.0, "2.5 mm²": 25.0, "4 mm²": 32.0, "6 mm²": 40.0},
+            {
+                "0.5 mm²": 3.0,
+                "0.75 mm²": 6.0,
+                "1 mm²": 10.0,
+                "1.5 mm²": 16.0,
+                "2.5 mm²": 25.0,
+                "4 mm²": 32.0,
+                "6 mm²": 40.0,
+            },
         ),
     )
 }
@@ -189,7 +197,17 @@ def run(size: WireSize, length: float, current: float, temperature: float = 20.0
     r1 = resistance_per_metre(size.area, temperature)
     loop = 2 * length * r1
     drop = current * loop
-    return Run(size, length, current, temperature, r1, loop, drop, drop / supply if supply else None, current**2 * loop)
+    return Run(
+        size,
+        length,
+        current,
+        temperature,
+        r1,
+        loop,
+        drop,
+        drop / supply if supply else None,
+        current**2 * loop,
+    )
 
 
 def smallest_size(

@@ -12,7 +12,7 @@ import re
 from dataclasses import dataclass
 from decimal import Decimal
 
-from .errors import InputError
+from ..errors import InputError
 
 #: SI prefixes people type, including the spellings of micro.
 PREFIXES: dict[str, int] = {
@@ -90,14 +90,21 @@ DIMENSIONS: dict[str, Dimension] = {
             ("V/K", "V/°C", "V/C", "V/degC"),
         ),
         Dimension(
-            "thermal_resistance", "K/W", "20 K/W", (), (("K/W", 1.0), ("°C/W", 1.0), ("C/W", 1.0)), use_prefixes=False
+            "thermal_resistance",
+            "K/W",
+            "20 K/W",
+            (),
+            (("K/W", 1.0), ("°C/W", 1.0), ("C/W", 1.0)),
+            use_prefixes=False,
         ),
         Dimension("count", "", "4", (), (), plain_ok=True, use_prefixes=False),
     )
 }
 
 _NUMBER = re.compile(r"^\s*([+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)\s*(.*?)\s*$")
-_AWG = re.compile(r"^\s*(?:#\s*)?(\d{1,2}|[1-4]/0|0{1,4})\s*(?:AWG|awg|ga|gauge)\s*$|^\s*(?:AWG|awg)\s*(\d{1,2}|[1-4]/0)\s*$")
+_AWG = re.compile(
+    r"^\s*(?:#\s*)?(\d{1,2}|[1-4]/0|0{1,4})\s*(?:AWG|awg|ga|gauge)\s*$|^\s*(?:AWG|awg)\s*(\d{1,2}|[1-4]/0)\s*$"
+)
 
 
 def awg_number(text: str) -> int | None:

@@ -1,0 +1,50 @@
+"""Packaging: the browser wheel is built from calc/pyproject.toml by its
+declared build backend, holds exactly the core's files, and comes out the
+same byte for byte on every build; the version has one source."""
+
+from __future__ import annotations
+
+import hashlib
+import subprocess
+import sys
+import zipfile
+from pathlib import Path
+
+import lampcalc
+from sites import ROOT
+
+import lampbook
+from lampbook.bundle import build_wheel
+
+CORE = ROOT / "calc" / "lampcalc"
+
+
+def test_wheel_holds_exactly_the_core(tmp_path: Path) -> None:
+    wheel = build_wheel(tmp_path)
+    assert wheel.name == f"lampcalc-{lampcalc.__version__}-py3-none-any.whl"
+    with zipfile.ZipFile(wheel) as z:
+        shipped = {n: z.read(n) for n in z.namelist() if n.startswith("lampcalc/")}
+        meta = z.read(f"lampcalc-{lampcalc.__version__}.dist-info/METADATA").decode()
+    on_disk = {
+        "lampcalc/" + p.relative_to(CORE).as_posix(): p.read_bytes()
+        for p in CORE.rglob("*")
+        if p.is_file() and (p.suffix == ".py" or p.name == "py.typed") and "__pycache__" not in p.parts
+    }
+    assert sorted(shipped) == sorted(on_disk)
+    assert all(shipped[n] == on_disk[n] for n in on_disk)
+    assert f"Version: {lampcalc.__version__}" in meta
+
+
+def test_wheel_is_reproducible(tmp_path: Path) -> None:
+    a = build_wheel(tmp_path / "a")
+    b = build_wheel(tmp_path / "b")
+    assert hashlib.sha256(a.read_bytes()).hexdigest() == hashlib.sha256(b.read_bytes()).hexdigest()
+
+
+def test_one_version() -> None:
+    assert lampbook.__version__ == lampcalc.__version__
+    r = subprocess.run([sys.executable, "-m", "lampbook.cli", "--version"], capture_output=True, text=True)
+    assert r.returncode == 0, r.stderr
+    assert r.stdout.strip() == f"lampbook {lampcalc.__version__}"
+    text = (ROOT / "pyproject.toml").read_text() + (ROOT / "calc" / "pyproject.toml").read_text()
+    assert lampcalc.__version__ not in text, "the version is written only in calc/lampcalc/__init__.py"
