@@ -112,3 +112,6 @@ def add(sub: Any) -> None:
     p.add_argument("folder", metavar="FOLDER")
     p.add_argument("--name", default="Shop handbook", help="the handbook's title")
     p.set_defaults(_run=run_new)
+    from .plancmd import add as add_plan
+
+    add_plan(sub)
