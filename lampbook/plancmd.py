@@ -111,6 +111,9 @@ def _report(ans: dict[str, Any], written: str | None) -> str:
         out += ["", f"No design: {ans['constraint']}."]
     if ans["notes"]:
         out += ["", bullets("Notes:", ans["notes"])]
+    if ans["cautions"]:
+        heading = "CAUTION (mains):" if any(p["supply"] == "dropper" for p in ans["proposals"]) else "Cautions:"
+        out += ["", bullets(heading, ans["cautions"])]
     return "\n".join(out)
 
 
