@@ -61,6 +61,7 @@ test-fast: $(DEPS)
 
 bench: $(DEPS) $(NODE) $(SYSTEM)
 	$(BIN)/python bench/run.py
+	$(BIN)/python bench/plan.py
 
 clean:
 	rm -rf site build .pytest_cache .hypothesis
