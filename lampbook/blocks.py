@@ -11,6 +11,8 @@ from lampcalc.api import compute
 from lampcalc.calculators import CALCULATORS
 from lampcalc.schema import describe, region_presets
 
+from .workbench import WorkbenchError, render_workbench
+
 # An opening fence as Markdown reads one: at most three spaces of indent (four make an
 # indented code block), three or more backticks or tildes, then the info word.
 _OPEN = re.compile(r"^(?P<indent> {0,3})(?P<mark>`{3,}|~{3,})[ \t]*(?P<word>[^\s`]*)[^`]*$")
@@ -232,13 +234,18 @@ def replace_blocks(markdown: str, fence: str, safety_url: str | None) -> tuple[s
     out: list[str] = []
     pos = 0
     for start, end, word, body in fenced_blocks(markdown):
-        if word not in (fence, fence + "-table", fence + "-open"):
+        if word not in (fence, fence + "-table", fence + "-open", fence + "-workbench"):
             continue
         count += 1
         if word == fence + "-table":
             html = render_table(count, body)
         elif word == fence + "-open":
             html = OPEN_DESIGN
+        elif word == fence + "-workbench":
+            try:
+                html = render_workbench(count, body)
+            except WorkbenchError as e:
+                raise BlockError(count, "workbench", str(e)) from None
         else:
             html = render(parse_block(count, body), safety_url)
         out += lines[pos:start]

@@ -109,3 +109,27 @@ def test_only_real_fences_become_calculators(flat_site: Path) -> None:
 )
 def test_fenced_blocks(text: str, words: list[str]) -> None:
     assert [w for _, _, w, _ in fenced_blocks(text)] == words
+
+
+def test_workbench_block(tmp_path: Path) -> None:
+    folder = tmp_path / "wb"
+    (folder / "docs" / "designs").mkdir(parents=True)
+    shutil.copyfile(ROOT / "docs" / "designs" / "panel-24v.toml", folder / "docs" / "designs" / "panel-24v.toml")
+    (folder / "docs" / "index.md").write_text(
+        "# Bench\n\n```lampbook-workbench\ndesigns/panel-24v.toml: 24 V panel\n```\n"
+    )
+    (folder / "mkdocs.yml").write_text(
+        "site_name: Bench\ntheme:\n  name: material\n  font: false\n"
+        f"plugins:\n  - lampbook:\n      engine: false\n      runtime: {RUNTIME}\n      cache_dir: {CACHE}\n"
+    )
+    r = build(folder)
+    assert r.returncode == 0, r.stderr
+    page = (folder / "site" / "index.html").read_text()
+    data = json.loads(re.search(r'<script type="application/json" class="lb-bench-data">(.*?)</script>', page).group(1))
+    assert data == {"starts": [{"label": "24 V panel", "path": "designs/panel-24v.toml"}]}
+    assert (folder / "site" / "designs" / "panel-24v.toml").is_file()
+    # a start that is not a design file inside the docs folder fails the build, naming the block and the line
+    (folder / "docs" / "index.md").write_text("```lampbook-workbench\n../secret.toml: nope\n```\n")
+    r = build(folder)
+    assert r.returncode != 0
+    assert "index.md" in r.stderr and "workbench block 1, line 1" in r.stderr

@@ -24,10 +24,32 @@ def handle(kind: str, req: dict[str, Any]) -> dict[str, Any]:
             ans = check(d, waveforms=True)
             st = study(d)
             return {"ok": True, "name": d.name, "html": render(d, ans, st), "failed": ans["failed"]}
-        raise InputError("kind", kind, "one of describe, compute, check, study, sheet")
+        if kind in ("design_schema", "design_doc", "design_toml", "plan"):
+            return {"ok": True, **_workbench(kind, req)}
+        raise InputError(
+            "kind", kind, "one of describe, compute, check, study, sheet, design_schema, design_doc, design_toml, plan"
+        )
     except InputErrors as e:
         return {"ok": False, "errors": [x.as_dict() for x in e.errors]}
     except (InputError, NoSolutionError) as e:
         return {"ok": False, "errors": [e.as_dict()]}
     except CalcError as e:
         return {"ok": False, "errors": [{"field": "", "value": "", "expected": "", "message": str(e)}]}
+
+
+def _workbench(kind: str, req: dict[str, Any]) -> dict[str, Any]:
+    """The design workbench's requests: the schema for its form, a file as form
+    values, form values as a file, and the planner on the design in the form."""
+    from .fixture import workbench as wb
+
+    if kind == "design_schema":
+        return wb.design_schema()
+    if kind == "design_doc":
+        return {"doc": wb.to_doc(str(req.get("toml", "")))}
+    doc = req.get("doc")
+    if not isinstance(doc, dict):
+        raise InputError("doc", str(doc)[:40], "the design form's values")
+    if kind == "design_toml":
+        return {"toml": wb.to_toml(doc)}
+    options = req.get("options")
+    return wb.plan_for(doc, options if isinstance(options, dict) else {})

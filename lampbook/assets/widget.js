@@ -2,6 +2,8 @@
 // Answers computed at build time are already in the page; this makes them live.
 // Re-initialises on every page of instant navigation (the theme's document$), never twice per form.
 
+import { initWorkbench } from "./workbench.js";
+
 const siteEl = document.getElementById("lb-site");
 const site = siteEl ? JSON.parse(siteEl.textContent) : { root: "./", timeout: 60, engine: true };
 const root = new URL(site.root, location.href);
@@ -251,8 +253,30 @@ function initOpen() {
   }
 }
 
+// the engine once it is up: true, or false when it could not start
+function whenReady() {
+  return new Promise((resolve) => {
+    const wait = () => (engineState === "ready" ? resolve(true) : engineState === "failed" ? resolve(false) : setTimeout(wait, 50));
+    wait();
+  });
+}
+
+function initBenches() {
+  for (const box of document.querySelectorAll(".lb-bench:not([data-live])")) {
+    box.dataset.live = "1";
+    startEngine();
+    const engine = {
+      root,
+      query: async (request) =>
+        (await whenReady()) ? query(request) : { ok: false, errors: [{ field: "", message: "the engine could not start in this browser" }] },
+    };
+    initWorkbench(box, engine).catch((e) => console.error("lampbook workbench:", e));
+  }
+}
+
 function init() {
   initOpen();
+  initBenches();
   const boxes = document.querySelectorAll(".lb-calc:not([data-live])");
   if (!boxes.length) { setStatus(); if (!worker) startOffline(); return; }
   setStatus();

@@ -22,6 +22,7 @@ ASSETS = Path(__file__).resolve().parent.parent / "assets"
 SITE_ASSETS = (
     "lampbook.css",
     "widget.js",
+    "workbench.js",
     "worker.js",
     "icon.svg",
     "icon-192.png",
