@@ -3,24 +3,10 @@
 // The calculation core does every parse, check and file write (through the engine worker); nothing
 // leaves the device. A shared link carries the design itself, so it works offline too.
 
+import { b64decode, b64encode, esc, si } from "./lbutil.js";
+
 const SHARE_LIMIT = 8000; // characters of a shared link's design (base64url): phones refuse longer URLs
 const DELAY = 350; // ms after the last keystroke
-
-function esc(s) {
-  return String(s).replace(/[&<>"']/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c]);
-}
-
-function b64encode(text) {
-  const bytes = new TextEncoder().encode(text);
-  let bin = "";
-  for (const b of bytes) bin += String.fromCharCode(b);
-  return btoa(bin).replace(/\+/g, "-").replace(/\//g, "_").replace(/=+$/, "");
-}
-
-function b64decode(s) {
-  const bin = atob(s.replace(/-/g, "+").replace(/_/g, "/"));
-  return new TextDecoder().decode(Uint8Array.from(bin, (c) => c.charCodeAt(0)));
-}
 
 const TITLES = {
   "": "Fixture", mains: "Mains", supply: "Constant-voltage supply", module: "LED module", array: "Array",
@@ -161,14 +147,6 @@ export async function initWorkbench(box, engine) {
     errs.innerHTML = loose.map((m) => `<li>${esc(m)}</li>`).join("");
   }
 
-  function fmt(x, unit) {
-    if (x === null || x === undefined || !isFinite(x)) return "–";
-    const P = [[1e-6, "µ"], [1e-3, "m"], [1, ""], [1e3, "k"]];
-    let best = P[2];
-    for (const p of P) if (Math.abs(x) >= p[0]) best = p;
-    return `${+(x / best[0]).toPrecision(3)} ${best[1]}${unit}`;
-  }
-
   function drawReview(ans) {
     const pin = app.querySelector(".lb-bench-pin");
     const nom = ans.nominal || {};
@@ -176,9 +154,9 @@ export async function initWorkbench(box, engine) {
     const verdict = ans.failed ? `${ans.failed} failed` : ans.warned ? `passes, ${ans.warned} warned` : "passes";
     pin.dataset.status = ans.failed ? "fail" : ans.warned ? "warn" : "pass";
     pin.innerHTML = `<span class="lb-bench-verdict">${esc(verdict)}</span>
-      <span>LED ${fmt(nom.led_current_avg_A, "A")}</span>
-      <span>worst string ${fmt(worst.string_current_avg_A, "A")}</span>
-      <span>${fmt(nom.input_power_W, "W")}</span>
+      <span>LED ${si(nom.led_current_avg_A, "A")}</span>
+      <span>worst string ${si(worst.string_current_avg_A, "A")}</span>
+      <span>${si(nom.input_power_W, "W")}</span>
       ${nom.power_factor !== undefined ? `<span>PF ${nom.power_factor.toFixed(2)}</span>` : ""}`;
     const checks = (ans.checks || []).slice().sort((a, b) => ({ fail: 0, warn: 1, pass: 2 })[a.status] - ({ fail: 0, warn: 1, pass: 2 })[b.status]);
     app.querySelector(".lb-bench-review").innerHTML = `<ul class="lb-bench-checks">${checks

@@ -23,6 +23,7 @@ SITE_ASSETS = (
     "lampbook.css",
     "widget.js",
     "workbench.js",
+    "lbutil.js",
     "worker.js",
     "icon.svg",
     "icon-192.png",
