@@ -61,9 +61,9 @@ def _row(r: IndexRow) -> str:
     s = r.summary
     v = s["verdict"]
     failing = s["failed_checks"]
-    checks = " ".join(f"<code>{_e(c)}</code>" for c in failing) if failing else "—"
+    checks = " ".join(f"<code>{_e(c)}</code>" for c in failing) if failing else '<span class="lb-fx-ok">none</span>'
     if s["warned"]:
-        checks += f' <span class="lb-fx-warned">{s["warned"]} warning{"s" if s["warned"] != 1 else ""}</span>'
+        checks += f' <span class="lb-fx-warned">· {s["warned"]} warning{"s" if s["warned"] != 1 else ""}</span>'
     supply = _figure(s["supply_voltage_V"], "voltage") + (" DC" if s["kind"] == "cv" else " mains")
     if s["supply_voltage_V"] is None:
         supply = "—"
@@ -138,8 +138,7 @@ def index_markdown(rows: Sequence[IndexRow], title: str = "Fixtures", safety_hre
         '<p class="lb-fx-none" hidden>No design matches.</p></div>'
     )
     intro = (
-        "Every fixture design in this handbook, reviewed when the handbook was built. "
-        "The verdict is the worst status among the design's review checks; the figures are at "
-        "nominal supply. Open a sheet for every check at its worst corner, the bill of materials and the wiring."
+        "Every fixture design in this handbook, reviewed when it was built. The verdict is the worst status "
+        "among a design's checks; figures are at nominal supply. Each sheet judges every check at its worst corner."
     )
     return f"# {title}\n\n{intro}\n\n{caution}\n\n{table}\n"
