@@ -116,5 +116,21 @@ def design_sheets(
     return run
 
 
+SHEET_SLOT = '<div class="lb-sheet-slot"></div>'
+"""Where a generated sheet's body goes back into the page (see the plugin's on_page_content)."""
+
+
+def split_sheet(markdown: str) -> tuple[str, str] | None:
+    """A generated sheet page as (its Markdown heading, its HTML body), or None if it is not one.
+
+    The body is the core's HTML and the footer: Markdown passes such a block through unchanged,
+    so the plugin may put it into the page itself and spare Markdown the parsing.
+    """
+    head, sep, body = markdown.partition("\n\n")
+    if not sep or not head.startswith("# ") or "\n" in head or not body.lstrip().startswith("<"):
+        return None
+    return head + "\n\n", body.rstrip("\n")
+
+
 def sheet_pages(docs_dir: Path, folder: str) -> list[tuple[str, str]]:
     return [(s.src_uri, s.markdown) for s in design_sheets(docs_dir, folder).sheets]

@@ -28,6 +28,9 @@ SITE_ASSETS = (
 
 
 class LampbookPlugin(BasePlugin[LampbookConfig]):  # type: ignore[no-untyped-call]  # as above
+    BYPASS_MARKDOWN = True
+    """Generated sheet bodies (HTML from the core) go into the page without a Markdown pass."""
+
     def on_config(self, config: Any) -> Any:
         if not self.config.enabled:
             return config
@@ -41,6 +44,7 @@ class LampbookPlugin(BasePlugin[LampbookConfig]):  # type: ignore[no-untyped-cal
             config.extra_css.append("assets/lampbook/catalogue.css")
             config.extra_javascript.append("assets/lampbook/catalogue.js")
         self._safety: str | None = None
+        self._sheet_bodies: dict[str, str] = {}
         return config
 
     def on_files(self, files: Any, config: Any) -> Any:
@@ -57,7 +61,7 @@ class LampbookPlugin(BasePlugin[LampbookConfig]):  # type: ignore[no-untyped-cal
         from ..catalogue import default_jobs
         from ..fixtureindex import IndexRow, index_markdown
         from ..reviewcache import ReviewCache
-        from ..sheets import SheetError, design_sheets
+        from ..sheets import SheetError, design_sheets, split_sheet
 
         jobs = self.config.review_jobs
         if jobs < 0:
@@ -94,11 +98,15 @@ class LampbookPlugin(BasePlugin[LampbookConfig]):  # type: ignore[no-untyped-cal
             run.seconds,
         )
         pages = {}
+        self._sheet_bodies = {}
         for sheet in run.sheets:
             f = files.get_file_from_path(sheet.src_uri)
             if f is None:
                 f = File.generated(config, sheet.src_uri, content=sheet.markdown)
                 files.append(f)
+                parts = split_sheet(sheet.markdown) if self.BYPASS_MARKDOWN else None
+                if parts:
+                    self._sheet_bodies[sheet.src_uri] = parts[1]
             pages[sheet.design] = f
         if not self.config.designs_index:
             return
@@ -121,6 +129,12 @@ class LampbookPlugin(BasePlugin[LampbookConfig]):  # type: ignore[no-untyped-cal
     def on_page_markdown(self, markdown: str, page: Any, config: Any, files: Any) -> str:
         if not self.config.enabled:
             return markdown
+        if page.file.src_uri in self._sheet_bodies:
+            from ..sheets import SHEET_SLOT, split_sheet
+
+            parts = split_sheet(markdown)
+            if parts is not None:
+                return parts[0] + SHEET_SLOT + "\n"
         safety = None
         if self._safety:
             safety = "../" * page.file.url.count("/") + "safety/"
@@ -133,6 +147,15 @@ class LampbookPlugin(BasePlugin[LampbookConfig]):  # type: ignore[no-untyped-cal
         if n:
             log.debug("%s: %d calculator blocks", page.file.src_uri, n)
         return out
+
+    def on_page_content(self, html: str, page: Any, config: Any, files: Any) -> str:
+        """A generated sheet's body is HTML already: it skips the Markdown pass and is put back here."""
+        body = self._sheet_bodies.get(page.file.src_uri) if self.config.enabled else None
+        from ..sheets import SHEET_SLOT
+
+        if body is None or SHEET_SLOT not in html:
+            return html
+        return html.replace(SHEET_SLOT, body, 1)
 
     def on_post_page(self, output: str, page: Any, config: Any) -> str:
         if not self.config.enabled:
