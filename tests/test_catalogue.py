@@ -263,14 +263,16 @@ def test_index_orders_worst_first_and_escapes() -> None:
 # --- plugin tier: real builds ---------------------------------------------------------------
 
 
-def _designs_site(folder: Path, designs: dict[str, str], extra: str = "") -> Path:
+def _designs_site(folder: Path, designs: dict[str, str], extra: str = "", own_cache: bool = True) -> Path:
+    """A small handbook of these designs; its own (empty) cache folder unless told to share the tests' one."""
     site = write_site(folder, {"index.md": "# Home\n", "safety.md": "# Safety\n"}, engine=False)
     (site / "docs" / "designs").mkdir()
     for name, text in designs.items():
         (site / "docs" / "designs" / name).write_text(text, encoding="utf-8")
     y = (site / "mkdocs.yml").read_text()
     y = y.replace("      engine: false", "      engine: false\n      designs: designs")
-    y = re.sub(r"      cache_dir: .*\n", f"      cache_dir: {folder / 'cache'}\n", y)
+    if own_cache:
+        y = re.sub(r"      cache_dir: .*\n", f"      cache_dir: {folder / 'cache'}\n", y)
     (site / "mkdocs.yml").write_text(y + extra)
     return site
 
@@ -330,8 +332,7 @@ def test_build_reviews_once_per_content(tmp_path: Path) -> None:
 
 @pytest.mark.plugin
 def test_cached_serial_and_parallel_builds_are_identical(tmp_path: Path) -> None:
-    designs = {"panel-230.toml": (DESIGNS / "panel-230.toml").read_text(encoding="utf-8")}
-    designs |= {f"strip-{k}.toml": cv_variant(k) for k in range(2)}
+    designs = {f"strip-{k}.toml": cv_variant(k) for k in range(3)}
     pages = []
     for i, extra in enumerate(("      review_jobs: 1\n      review_cache: false\n", "      review_jobs: 2\n", "")):
         site = _designs_site(tmp_path / str(i), designs, extra)
@@ -344,6 +345,24 @@ def test_cached_serial_and_parallel_builds_are_identical(tmp_path: Path) -> None
         pages.append(_sheets(site) | {"index": _article((site / "site" / "designs" / "index.html").read_text())})
     assert pages[0] == pages[1] == pages[2]
     assert not (tmp_path / "0" / "cache" / "reviews").exists()
+
+
+@pytest.mark.plugin
+def test_sheet_bodies_without_markdown_pass_are_the_same_pages(tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> None:
+    from mkdocs.commands.build import build as mkdocs_build
+    from mkdocs.config import load_config
+
+    from lampbook.plugin.plugin import LampbookPlugin
+
+    designs = {"panel-230.toml": (DESIGNS / "panel-230.toml").read_text(encoding="utf-8"), "strip.toml": cv_variant(2)}
+    site = _designs_site(tmp_path, designs, own_cache=False)
+    pages = []
+    for bypass in (False, True):
+        monkeypatch.setattr(LampbookPlugin, "BYPASS_MARKDOWN", bypass)
+        out = tmp_path / f"out-{bypass}"
+        mkdocs_build(load_config(str(site / "mkdocs.yml"), site_dir=str(out)))
+        pages.append({p.relative_to(out).as_posix(): p.read_bytes() for p in (out / "designs").rglob("*.html")})
+    assert len(pages[0]) == 3 and pages[0] == pages[1]
 
 
 @pytest.mark.plugin
@@ -362,7 +381,7 @@ def test_cache_entry_is_what_the_build_serves(tmp_path: Path) -> None:
 @pytest.mark.plugin
 def test_index_links_every_sheet_and_bad_jobs_refused(tmp_path: Path) -> None:
     designs = {p.name: p.read_text(encoding="utf-8") for p in DEMO}
-    site = _designs_site(tmp_path, designs)
+    site = _designs_site(tmp_path, designs, own_cache=False)
     r = _build(site)
     assert r.returncode == 0, r.stderr
     index = (site / "site" / "designs" / "index.html").read_text()
