@@ -441,7 +441,7 @@ def test_index_on_a_phone(index_site: tuple[Path, Server]) -> None:
         b = p.chromium.launch(executable_path=CHROMIUM, args=ARGS)
         ctx = b.new_context(viewport={"width": 390, "height": 844})
         ctx.route(
-            re.compile(r"^(?!http://127\.0\.0\.1:).*"),
+            re.compile(r"^(?!http://127\.0\.0\.1:|file://).*"),  # the site's server and its own files only
             lambda route: (foreign.append(route.request.url), route.abort()),
         )
         page = ctx.new_page()
