@@ -75,9 +75,7 @@ class LampbookPlugin(BasePlugin[LampbookConfig]):  # type: ignore[no-untyped-cal
         if not self.config.enabled:
             return output
         base = get_relative_url(".", page.url).rstrip("/") + "/"
-        site_json = json.dumps(
-            {"root": base, "timeout": self.config.load_timeout, "engine": self.config.engine}
-        )
+        site_json = json.dumps({"root": base, "timeout": self.config.load_timeout, "engine": self.config.engine})
         meta = (
             f'<link rel="manifest" href="{base}manifest.webmanifest">'
             f'<meta name="theme-color" content="#26323a">'
