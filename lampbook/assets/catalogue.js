@@ -6,15 +6,15 @@
   "use strict";
 
   function num(row, key) {
-    var v = row.getAttribute("data-" + key);
+    const v = row.getAttribute("data-" + key);
     return v === null || v === "" ? null : Number(v);
   }
 
   function compare(key) {
     return function (a, b) {
       if (key === "name") return a.getAttribute("data-name").localeCompare(b.getAttribute("data-name"));
-      var x = num(a, key === "verdict" ? "rank" : key);
-      var y = num(b, key === "verdict" ? "rank" : key);
+      const x = num(a, key === "verdict" ? "rank" : key);
+      const y = num(b, key === "verdict" ? "rank" : key);
       if (x === y) return a.getAttribute("data-name").localeCompare(b.getAttribute("data-name"));
       if (x === null) return 1; // designs without the figure go last either way
       if (y === null) return -1;
@@ -25,35 +25,35 @@
   function setup(box) {
     if (box.dataset.ready) return;
     box.dataset.ready = "1";
-    var controls = box.querySelector(".lb-fx-controls");
-    var find = box.querySelector(".lb-fx-find input");
-    var verdict = box.querySelector(".lb-fx-verdict");
-    var sort = box.querySelector(".lb-fx-sort");
-    var dir = box.querySelector(".lb-fx-dir");
-    var shown = box.querySelector(".lb-fx-shown");
-    var none = box.querySelector(".lb-fx-none");
-    var body = box.querySelector("tbody");
-    var rows = Array.prototype.slice.call(body.rows);
-    var total = rows.length;
-    var summary = shown.textContent;
+    const controls = box.querySelector(".lb-fx-controls");
+    const find = box.querySelector(".lb-fx-find input");
+    const verdict = box.querySelector(".lb-fx-verdict");
+    const sort = box.querySelector(".lb-fx-sort");
+    const dir = box.querySelector(".lb-fx-dir");
+    const shown = box.querySelector(".lb-fx-shown");
+    const none = box.querySelector(".lb-fx-none");
+    const body = box.querySelector("tbody");
+    const rows = Array.prototype.slice.call(body.rows);
+    const total = rows.length;
+    const summary = shown.textContent;
 
     function apply() {
-      var words = find.value.toLowerCase().split(/\s+/).filter(Boolean);
-      var want = verdict.value;
-      var key = sort.value;
-      var reverse = dir.getAttribute("aria-pressed") === "true";
-      var cmp = compare(key);
-      var sorted = rows.slice().sort(function (a, b) {
-        var c = cmp(a, b);
+      const words = find.value.toLowerCase().split(/\s+/).filter(Boolean);
+      const want = verdict.value;
+      const key = sort.value;
+      const reverse = dir.getAttribute("aria-pressed") === "true";
+      const cmp = compare(key);
+      const sorted = rows.slice().sort(function (a, b) {
+        const c = cmp(a, b);
         // missing figures stay last in both directions
         if (key !== "name" && key !== "verdict" && (num(a, key) === null || num(b, key) === null)) return c;
         return reverse ? -c : c;
       });
-      var n = 0;
-      var frag = document.createDocumentFragment();
+      let n = 0;
+      const frag = document.createDocumentFragment();
       sorted.forEach(function (row) {
-        var text = row.getAttribute("data-find");
-        var ok = (!want || row.getAttribute("data-verdict") === want) && words.every(function (w) {
+        const text = row.getAttribute("data-find");
+        const ok = (!want || row.getAttribute("data-verdict") === want) && words.every(function (w) {
           return text.indexOf(w) >= 0;
         });
         row.hidden = !ok;
@@ -78,8 +78,8 @@
   }
 
   function init() {
-    var boxes = document.querySelectorAll(".lb-fixtures");
-    for (var i = 0; i < boxes.length; i++) setup(boxes[i]);
+    const boxes = document.querySelectorAll(".lb-fixtures");
+    for (let i = 0; i < boxes.length; i++) setup(boxes[i]);
   }
 
   if (window.document$ && typeof window.document$.subscribe === "function") {

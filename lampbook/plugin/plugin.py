@@ -6,10 +6,13 @@ from __future__ import annotations
 import json
 import shutil
 from pathlib import Path
-from typing import Any
 
+from mkdocs.config.defaults import MkDocsConfig
 from mkdocs.exceptions import PluginError
-from mkdocs.plugins import BasePlugin, get_plugin_logger
+from mkdocs.plugins import BasePlugin, event_priority, get_plugin_logger
+from mkdocs.structure.files import File, Files
+from mkdocs.structure.pages import Page
+from mkdocs.utils import get_relative_url
 
 from .. import blocks, bundle
 from .config import LampbookConfig
@@ -31,7 +34,7 @@ class LampbookPlugin(BasePlugin[LampbookConfig]):  # type: ignore[no-untyped-cal
     BYPASS_MARKDOWN = True
     """Generated sheet bodies (HTML from the core) go into the page without a Markdown pass."""
 
-    def on_config(self, config: Any) -> Any:
+    def on_config(self, config: MkDocsConfig) -> MkDocsConfig:
         if not self.config.enabled:
             return config
         config.extra_css.append("assets/lampbook/lampbook.css")
@@ -43,25 +46,22 @@ class LampbookPlugin(BasePlugin[LampbookConfig]):  # type: ignore[no-untyped-cal
         if self.config.designs and self.config.designs_index:
             config.extra_css.append("assets/lampbook/catalogue.css")
             config.extra_javascript.append("assets/lampbook/catalogue.js")
-        self._safety: str | None = None
-        self._sheet_bodies: dict[str, str] = {}
+        self._safety: File | None = None
+        self._sheets: dict[str, tuple[str, str, str]] = {}
         return config
 
-    def on_files(self, files: Any, config: Any) -> Any:
-        self._safety = "safety.md" if files.get_file_from_path("safety.md") else None
+    def on_files(self, files: Files, config: MkDocsConfig) -> Files:
+        self._safety = files.get_file_from_path("safety.md")
         if self.config.enabled and self.config.designs:
             self._design_pages(files, config, self.config.designs)
         return files
 
-    def _design_pages(self, files: Any, config: Any, folder: str) -> None:
+    def _design_pages(self, files: Files, config: MkDocsConfig, folder: str) -> None:
         """A build sheet per design file, reviewed once per content (see :mod:`lampbook.sheets`), and the index."""
-        from mkdocs.structure.files import File
-        from mkdocs.utils import get_relative_url
-
         from ..catalogue import default_jobs
         from ..fixtureindex import IndexRow, index_markdown
         from ..reviewcache import ReviewCache
-        from ..sheets import SheetError, design_sheets, split_sheet
+        from ..sheets import SheetError, design_sheets
 
         jobs = self.config.review_jobs
         if jobs < 0:
@@ -98,15 +98,14 @@ class LampbookPlugin(BasePlugin[LampbookConfig]):  # type: ignore[no-untyped-cal
             run.seconds,
         )
         pages = {}
-        self._sheet_bodies = {}
+        self._sheets = {}
         for sheet in run.sheets:
             f = files.get_file_from_path(sheet.src_uri)
             if f is None:
                 f = File.generated(config, sheet.src_uri, content=sheet.markdown)
                 files.append(f)
-                parts = split_sheet(sheet.markdown) if self.BYPASS_MARKDOWN else None
-                if parts:
-                    self._sheet_bodies[sheet.src_uri] = parts[1]
+                if self.BYPASS_MARKDOWN and sheet.stub is not None and sheet.body is not None:
+                    self._sheets[sheet.src_uri] = (sheet.markdown, sheet.stub, sheet.body)
             pages[sheet.design] = f
         if not self.config.designs_index:
             return
@@ -120,26 +119,19 @@ class LampbookPlugin(BasePlugin[LampbookConfig]):  # type: ignore[no-untyped-cal
             IndexRow(s.summary, get_relative_url(pages[s.design].url, index.url), s.design.rsplit("/", 1)[-1])
             for s in run.sheets
         ]
-        safety = files.get_file_from_path(self._safety) if self._safety else None
-        index.content_string = index_markdown(
-            rows, safety_href=get_relative_url(safety.url, index.url) if safety else None
-        )
+        safety = get_relative_url(self._safety.url, index.url) if self._safety is not None else None
+        index.content_string = index_markdown(rows, safety_href=safety)
         files.append(index)
 
-    def on_page_markdown(self, markdown: str, page: Any, config: Any, files: Any) -> str:
+    def on_page_markdown(self, markdown: str, /, *, page: Page, config: MkDocsConfig, files: Files) -> str:
         if not self.config.enabled:
             return markdown
-        if page.file.src_uri in self._sheet_bodies:
-            from ..sheets import SHEET_SLOT, split_sheet
-
-            parts = split_sheet(markdown)
-            if parts is not None:
-                return parts[0] + SHEET_SLOT + "\n"
+        sheet = self._sheets.get(page.file.src_uri)
+        if sheet is not None and markdown == sheet[0]:
+            return sheet[1]  # the core's HTML body waits for on_page_content
         safety = None
-        if self._safety:
-            safety = "../" * page.file.url.count("/") + "safety/"
-            if page.file.src_uri == "safety.md":
-                safety = None
+        if self._safety is not None and page.file.src_uri != self._safety.src_uri:
+            safety = get_relative_url(self._safety.url, page.file.url)
         try:
             out, n = blocks.replace_blocks(markdown, self.config.fence, safety)
         except blocks.BlockError as e:
@@ -148,22 +140,20 @@ class LampbookPlugin(BasePlugin[LampbookConfig]):  # type: ignore[no-untyped-cal
             log.debug("%s: %d calculator blocks", page.file.src_uri, n)
         return out
 
-    def on_page_content(self, html: str, page: Any, config: Any, files: Any) -> str:
-        """A generated sheet's body is HTML already: it skips the Markdown pass and is put back here."""
-        body = self._sheet_bodies.get(page.file.src_uri) if self.config.enabled else None
+    def on_page_content(self, html: str, /, *, page: Page, config: MkDocsConfig, files: Files) -> str:
+        """A generated sheet's body is HTML already: it skipped the Markdown pass and is put back here."""
         from ..sheets import SHEET_SLOT
 
-        if body is None or SHEET_SLOT not in html:
+        sheet = self._sheets.get(page.file.src_uri) if self.config.enabled else None
+        if sheet is None or SHEET_SLOT not in html:
             return html
-        return html.replace(SHEET_SLOT, body, 1)
+        return html.replace(SHEET_SLOT, sheet[2], 1)
 
-    def on_post_page(self, output: str, page: Any, config: Any) -> str:
+    def on_post_page(self, output: str, /, *, page: Page, config: MkDocsConfig) -> str:
         if not self.config.enabled:
             return output
-        base = "../" * page.url.count("/") if page.url else ""
-        site_json = json.dumps(
-            {"root": base or "./", "timeout": self.config.load_timeout, "engine": self.config.engine}
-        )
+        base = get_relative_url(".", page.url).rstrip("/") + "/"
+        site_json = json.dumps({"root": base, "timeout": self.config.load_timeout, "engine": self.config.engine})
         meta = (
             f'<link rel="manifest" href="{base}manifest.webmanifest">'
             f'<meta name="theme-color" content="#26323a">'
@@ -171,7 +161,9 @@ class LampbookPlugin(BasePlugin[LampbookConfig]):  # type: ignore[no-untyped-cal
         )
         return output.replace("</head>", meta + "</head>", 1)
 
-    def on_post_build(self, config: Any) -> None:
+    # after every other plugin (the search index must exist before the offline precache is listed)
+    @event_priority(-100)
+    def on_post_build(self, *, config: MkDocsConfig) -> None:
         if not self.config.enabled:
             return
         site = Path(config.site_dir)
