@@ -147,11 +147,21 @@ def run_all(
 
         # fresh interpreters: the build process may run threads (mkdocs serve), which fork does not mix with
         ctx = multiprocessing.get_context("spawn")
-        with cf.ProcessPoolExecutor(max_workers=workers, mp_context=ctx) as pool:
-            futures = {pool.submit(work, t): i for i, t in enumerate(texts)}
-            for done, f in enumerate(cf.as_completed(futures), start=1):
-                out[futures[f]] = f.result()
-                tick(done)
+        done = 0
+        try:
+            with cf.ProcessPoolExecutor(max_workers=workers, mp_context=ctx) as pool:
+                futures = {pool.submit(work, t): i for i, t in enumerate(texts)}
+                for f in cf.as_completed(futures):
+                    out[futures[f]] = f.result()
+                    done += 1
+                    tick(done)
+        except (OSError, cf.process.BrokenProcessPool):
+            # no worker processes here (or one died): the rest in this process, the same answers
+            for i, t in enumerate(texts):
+                if out[i] is None:
+                    out[i] = work(t)
+                    done += 1
+                    tick(done)
     missing = [i for i, r in enumerate(out) if r is None]
     if missing:  # pragma: no cover - every future either answers or raises
         raise RuntimeError(f"review: no result for {len(missing)} designs")

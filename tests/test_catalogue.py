@@ -151,6 +151,18 @@ def test_parallel_check_equals_serial() -> None:
     assert seen == [(i + 1, len(texts)) for i in range(len(texts))]
 
 
+def test_no_worker_processes_falls_back_to_this_process(monkeypatch: pytest.MonkeyPatch) -> None:
+    import concurrent.futures
+
+    def refuse(*args: object, **kw: object) -> None:
+        raise OSError(38, "Function not implemented")  # e.g. no shared memory for process locks
+
+    texts = [cv_variant(k) for k in range(3)]
+    serial = run_all(check_design, texts, jobs=1)
+    monkeypatch.setattr(concurrent.futures, "ProcessPoolExecutor", refuse)
+    assert [r["summary"] for r in run_all(check_design, texts, jobs=2)] == [r["summary"] for r in serial]
+
+
 def test_parallel_sheets_equal_serial() -> None:
     texts = [cv_variant(k) for k in range(3)] + ['name = "x"\n[supply]\nkind = "cv"\nvoltage = "24"\n']
     serial = run_all(review_sheet, texts, jobs=1)
@@ -353,16 +365,30 @@ def test_sheet_bodies_without_markdown_pass_are_the_same_pages(tmp_path: Path, m
     from mkdocs.config import load_config
 
     from lampbook.plugin.plugin import LampbookPlugin
+    from lampbook.sheets import SHEET_SLOT
 
     designs = {"panel-230.toml": (DESIGNS / "panel-230.toml").read_text(encoding="utf-8"), "strip.toml": cv_variant(2)}
     site = _designs_site(tmp_path, designs, own_cache=False)
-    pages = []
+    original = LampbookPlugin.on_page_content
+    slots: list[str] = []
+
+    def spy(self: LampbookPlugin, html: str, /, **kw: object) -> str:
+        if SHEET_SLOT in html:
+            slots.append(kw["page"].file.src_uri)  # type: ignore[attr-defined]
+        return original(self, html, **kw)  # type: ignore[arg-type]
+
+    monkeypatch.setattr(LampbookPlugin, "on_page_content", spy)
+    pages, filled = [], []
     for bypass in (False, True):
         monkeypatch.setattr(LampbookPlugin, "BYPASS_MARKDOWN", bypass)
         out = tmp_path / f"out-{bypass}"
+        slots.clear()
         mkdocs_build(load_config(str(site / "mkdocs.yml"), site_dir=str(out)))
+        filled.append(sorted(slots))
         pages.append({p.relative_to(out).as_posix(): p.read_bytes() for p in (out / "designs").rglob("*.html")})
+    assert filled == [[], ["designs/panel-230.md", "designs/strip.md"]]  # the second build did skip Markdown
     assert len(pages[0]) == 3 and pages[0] == pages[1]
+    assert SHEET_SLOT.encode() not in pages[1]["designs/strip/index.html"]
 
 
 @pytest.mark.plugin
