@@ -53,6 +53,7 @@ def _add_calculators(sub: Any) -> None:
                 help=" ".join(bits).replace("%", "%%"),
             )
         p.add_argument("--json", action="store_true", help="print one JSON object instead of the table")
+        p.add_argument("--wide", action="store_true", help="use the full width instead of 80 columns")
         p.set_defaults(_run=_run_calculator, _calc=calc.name)
 
 
@@ -73,7 +74,7 @@ def _run_calculator(args: argparse.Namespace) -> int:
     else:
         from .report import answer
 
-        print(answer(describe(calc), ans))
+        print(answer(describe(calc), ans, wide=args.wide))
     return 0
 
 

@@ -27,7 +27,7 @@ class InputError(CalcError, ValueError):
 
     @property
     def message(self) -> str:
-        shown = self.value if isinstance(self.value, str) else repr(self.value)
+        shown = self.value if isinstance(self.value, str) and self.value.strip() else repr(self.value)
         return f"{self.field}: got {shown!s}; expected {self.expected}"
 
     def as_dict(self) -> dict[str, str]:
