@@ -81,7 +81,9 @@ def _run_calculator(args: argparse.Namespace) -> int:
 def _flag_message(e: dict[str, str]) -> str:
     field = e.get("field") or ""
     if field and e.get("expected"):
-        return f"{_option(field)}: got '{e['value']}'; expected {e['expected']}"
+        from lampcalc.errors import printable
+
+        return f"{_option(field)}: got '{printable(e['value'])}'; expected {e['expected']}"
     return e.get("message", "")
 
 
@@ -110,6 +112,16 @@ def main(argv: Sequence[str] | None = None) -> int:
         return int(args._run(args))
     except BrokenPipeError:
         return 0
+    except RecursionError:
+        print(f"lampbook {args.command}: input nested too deeply to read; expected a flat design file", file=sys.stderr)
+        return 2
+    except Exception as e:  # noqa: BLE001 - one plain line, never a traceback
+        print(
+            f"lampbook {args.command}: internal error, please report it with the inputs that caused it: "
+            f"{type(e).__name__}: {e}",
+            file=sys.stderr,
+        )
+        return 70
 
 
 if __name__ == "__main__":  # pragma: no cover

@@ -4,16 +4,35 @@ from __future__ import annotations
 
 import argparse
 import json
+import os
 import sys
 from typing import Any
 
 
+#: Largest design file read: a real design is a few kilobytes.
+MAX_DESIGN_BYTES = 1_000_000
+
+
 def _read(path: str) -> str | None:
     try:
-        with open(path, encoding="utf-8") as fh:
-            return fh.read()
+        with open(path, "rb") as fh:
+            data = fh.read(MAX_DESIGN_BYTES + 1)
     except OSError as e:
         print(f"lampbook: DESIGN: cannot read '{path}': {e.strerror}", file=sys.stderr)
+        return None
+    if len(data) > MAX_DESIGN_BYTES:
+        print(
+            f"lampbook: DESIGN: '{path}' is over {MAX_DESIGN_BYTES // 1000} kB; expected a design file (a few kB of TOML)",
+            file=sys.stderr,
+        )
+        return None
+    try:
+        return data.decode("utf-8")
+    except UnicodeDecodeError as e:
+        print(
+            f"lampbook: DESIGN: '{path}' is not UTF-8 text (byte {e.start}); expected a TOML design saved as UTF-8",
+            file=sys.stderr,
+        )
         return None
 
 
@@ -34,7 +53,9 @@ def run_check(args: argparse.Namespace) -> int:
         return _errors(ans["errors"], f"lampbook check {args.design}")
     ans.pop("ok")
     if args.json:
-        print(json.dumps(ans, indent=2, sort_keys=True, ensure_ascii=False))
+        from lampcalc.api import dumps
+
+        print(dumps(ans, indent=2, sort_keys=True, ensure_ascii=False))
     else:
         from .designtext import check_report
 
@@ -45,6 +66,12 @@ def run_check(args: argparse.Namespace) -> int:
 def run_sheet(args: argparse.Namespace) -> int:
     from .sheets import SheetError, sheet_markdown
 
+    if args.output not in (None, "-") and _same_file(args.output, args.design):
+        print(
+            f"lampbook: -o: '{args.output}' is the design being read; expected another file for the page",
+            file=sys.stderr,
+        )
+        return 2
     text = _read(args.design)
     if text is None:
         return 2
@@ -56,13 +83,21 @@ def run_sheet(args: argparse.Namespace) -> int:
     if args.output in (None, "-"):
         sys.stdout.write(page)
     else:
+        from .atomic import write_atomic
+
         try:
-            with open(args.output, "w", encoding="utf-8") as fh:
-                fh.write(page)
+            write_atomic(args.output, page)
         except OSError as e:
             print(f"lampbook: -o: cannot write '{args.output}': {e.strerror}", file=sys.stderr)
             return 2
     return 0
+
+
+def _same_file(a: str, b: str) -> bool:
+    try:
+        return os.path.samefile(a, b)
+    except OSError:
+        return os.path.abspath(a) == os.path.abspath(b)
 
 
 def run_new(args: argparse.Namespace) -> int:

@@ -6,7 +6,6 @@ import textwrap
 from collections.abc import Mapping, Sequence
 from typing import Any
 
-
 #: Terminal width the report keeps to unless asked for full width.
 WIDTH = 80
 

@@ -143,9 +143,9 @@ def parse_inputs(calc: Calculator, raw: Mapping[str, object]) -> dict[str, Value
     if region_key and region_key != "custom":
         preset = PRESETS[region_key]
         for name, value in (("mains_voltage", preset.voltage), ("frequency", preset.frequency)):
-            if name in known and raw.get(name) in (None, ""):
+            if name in known and _blank(raw.get(name)):
                 out[name] = value
-        if "mains_tolerance" in known and raw.get("mains_tolerance") in (None, ""):
+        if "mains_tolerance" in known and _blank(raw.get("mains_tolerance")):
             out["mains_tolerance"] = max(preset.plus, preset.minus)
             out["mains_plus"] = preset.plus
             out["mains_minus"] = preset.minus
@@ -160,6 +160,10 @@ def parse_inputs(calc: Calculator, raw: Mapping[str, object]) -> dict[str, Value
     if errors:
         raise errors[0] if len(errors) == 1 else InputErrors(errors)
     return out
+
+
+def _blank(x: object) -> bool:
+    return x is None or (isinstance(x, str) and not x.strip())
 
 
 def _blank_expected(p: Param) -> str:
