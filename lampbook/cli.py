@@ -115,7 +115,7 @@ def main(argv: Sequence[str] | None = None) -> int:
     except RecursionError:
         print(f"lampbook {args.command}: input nested too deeply to read; expected a flat design file", file=sys.stderr)
         return 2
-    except Exception as e:  # noqa: BLE001 - one plain line, never a traceback
+    except Exception as e:  # one plain line, never a traceback
         print(
             f"lampbook {args.command}: internal error, please report it with the inputs that caused it: "
             f"{type(e).__name__}: {e}",

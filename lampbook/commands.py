@@ -3,11 +3,9 @@
 from __future__ import annotations
 
 import argparse
-import json
 import os
 import sys
 from typing import Any
-
 
 #: Largest design file read: a real design is a few kilobytes.
 MAX_DESIGN_BYTES = 1_000_000
@@ -22,7 +20,8 @@ def _read(path: str) -> str | None:
         return None
     if len(data) > MAX_DESIGN_BYTES:
         print(
-            f"lampbook: DESIGN: '{path}' is over {MAX_DESIGN_BYTES // 1000} kB; expected a design file (a few kB of TOML)",
+            f"lampbook: DESIGN: '{path}' is over {MAX_DESIGN_BYTES // 1000} kB; "
+            "expected a design file (a few kB of TOML)",
             file=sys.stderr,
         )
         return None

@@ -114,7 +114,7 @@ def handle(text: str) -> str:
         return _handle(text)
     except RecursionError:
         return _refusal("request", text[:80], f"JSON nested at most {MAX_DEPTH} deep", "request is nested too deeply")
-    except Exception as e:  # noqa: BLE001 - the page must get an answer, never a dead worker
+    except Exception as e:  # the page must get an answer, never a dead worker
         return _refusal(
             "",
             "",
