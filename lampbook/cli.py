@@ -42,7 +42,8 @@ def _add_calculators(sub: Any) -> None:
             elif prm.dim not in ("text", "count"):
                 from lampcalc.quantities.units import dimension
 
-                bits.append(f"A {prm.dim} such as '{dimension(prm.dim).example}'.")
+                expected = dimension(prm.dim).expected
+                bits.append(expected[0].upper() + expected[1:] + ".")
             if prm.modes:
                 bits.append(f"For {calc.mode} {'/'.join(prm.modes)}.")
             bits.append(f"Default: {prm.default}." if prm.default is not None else "Optional.")

@@ -57,9 +57,26 @@ def run_check(args: argparse.Namespace) -> int:
         print(dumps(ans, indent=2, sort_keys=True, ensure_ascii=False))
     else:
         from .designtext import check_report
+        from .report import full_width
 
-        print(check_report(ans))
+        if args.wide:
+            with full_width():
+                print(check_report(ans))
+        else:
+            print(_fit(check_report(ans)))
     return 1 if ans["failed"] else 0
+
+
+def _fit(text: str) -> str:
+    """Wrap any line still over 80 columns (tables already fit; this catches prose)."""
+    import textwrap
+
+    from .report import WIDTH
+
+    out = []
+    for line in text.splitlines():
+        out.extend(textwrap.wrap(line, WIDTH, subsequent_indent="  ") if len(line) > WIDTH else [line])
+    return "\n".join(out)
 
 
 def run_sheet(args: argparse.Namespace) -> int:
@@ -127,6 +144,7 @@ def add(sub: Any) -> None:
     p.add_argument("design", metavar="DESIGN.toml")
     p.add_argument("--json", action="store_true", help="print one JSON object")
     p.add_argument("--waveforms", action="store_true", help="include the nominal waveforms in the JSON")
+    p.add_argument("--wide", action="store_true", help="use the full width instead of 80 columns")
     p.set_defaults(_run=run_check)
     p = sub.add_parser(
         "sheet",

@@ -2,25 +2,60 @@
 
 from __future__ import annotations
 
+import contextlib
 import textwrap
-from collections.abc import Mapping, Sequence
+from collections.abc import Iterator, Mapping, Sequence
 from typing import Any
 
 #: Terminal width the report keeps to unless asked for full width.
 WIDTH = 80
 
 
-def table(headers: Sequence[str], rows: Sequence[Sequence[str]], width: int | None = None) -> str:
-    """Rows under their headers; wider than ``width`` (None: no limit), each row
-    is stacked as one "header: value" line per column instead."""
+_full_width = False
+
+
+@contextlib.contextmanager
+def full_width() -> Iterator[None]:
+    """Within this block tables and notes use the full width (``--wide``)."""
+    global _full_width
+    old, _full_width = _full_width, True
+    try:
+        yield
+    finally:
+        _full_width = old
+
+
+def _limit(width: int | None) -> int | None:
+    return None if _full_width else width
+
+
+def table(headers: Sequence[str], rows: Sequence[Sequence[str]], width: int | None = WIDTH) -> str:
+    """Rows under their headers, within ``width`` columns (None: no limit): a
+    long last column wraps under itself; when even that cannot fit, each row is
+    stacked as one "header  value" line per column."""
+    width = _limit(width)
     widths = [len(h) for h in headers]
     for r in rows:
         widths = [max(w, len(c)) for w, c in zip(widths, r)]
     if width is not None and sum(widths) + 2 * (len(widths) - 1) > width:
+        lead = sum(widths[:-1]) + 2 * (len(widths) - 1)
+        if len(widths) > 1 and width - lead >= 30:
+            return _wrapped_last(headers, rows, widths[:-1], width - lead)
         return stacked(headers, rows, width)
     line = "  ".join(h.ljust(w) for h, w in zip(headers, widths))
     out = [line, "  ".join("-" * w for w in widths)]
     out += ["  ".join(c.ljust(w) for c, w in zip(r, widths)) for r in rows]
+    return "\n".join(x.rstrip() for x in out)
+
+
+def _wrapped_last(headers: Sequence[str], rows: Sequence[Sequence[str]], lead: Sequence[int], last: int) -> str:
+    widths = [*lead, min(last, max(len(headers[-1]), *(len(r[-1]) for r in rows)))]
+    out = ["  ".join(h.ljust(w) for h, w in zip(headers, widths)), "  ".join("-" * w for w in widths)]
+    indent = " " * (sum(lead) + 2 * len(lead))
+    for r in rows:
+        pieces = textwrap.wrap(r[-1], last) or [""]
+        out.append("  ".join(c.ljust(w) for c, w in zip(r[:-1], lead)) + "  " + pieces[0])
+        out += [indent + p for p in pieces[1:]]
     return "\n".join(x.rstrip() for x in out)
 
 
@@ -56,6 +91,8 @@ def pair_lines(pairs: Sequence[tuple[str, str]], width: int | None = None) -> st
 def bullets(title: str, items: Sequence[str], width: int = WIDTH - 2) -> str:
     if not items:
         return ""
+    if _full_width:
+        width = 10_000
     lines = [title]
     for it in items:
         lines.append(textwrap.fill(it, width, initial_indent="  - ", subsequent_indent="    "))

@@ -174,6 +174,8 @@ REFUSED = [
     # a power of ten is never read as a code
     ("4e7", "resistance", ["unit is missing"]),
     ("4m7", "resistance", ["resistance such as", "4k7"]),
+    ("100n", "resistance", ["resistance such as"]),
+    ("470m", "resistance", ["resistance such as"]),
     # beyond anything physical, non-finite, blank, too long
     ("1e999 V", "voltage", ["finite voltage"]),
     ("1e-300 Ω", "resistance", ["finite resistance"]),

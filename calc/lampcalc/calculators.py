@@ -190,7 +190,14 @@ def _module(v: V) -> Result:
     notes = []
     if all(p is not None for p in pts):
         i1, v1, i2, v2 = (p for p in pts if p is not None)
-        m = LedModule.from_points(i1, v1, i2, v2, current_ref=i, **kw)
+        try:
+            m = LedModule.from_points(i1, v1, i2, v2, current_ref=i, **kw)
+        except InputError as e:
+            # name the options the user typed, not the core's internal pair
+            field = "v2" if "voltage" in e.expected else "i2"
+            shown = f"{format_value(i1, 'current')}, {format_value(v1, 'voltage')} and "
+            shown += f"{format_value(i2, 'current')}, {format_value(v2, 'voltage')}"
+            raise InputError(field, shown, f"{e.expected} (from i1, v1 and i2, v2)") from None
         notes.append("V0 and Rd fitted through the two datasheet points.")
     elif any(p is not None for p in pts):
         raise InputError("i1", "partly given", "all four of i1, v1, i2, v2, or none")
@@ -278,6 +285,12 @@ def _string(v: V) -> Result:
     i = f(v, "current")
     m = module_from(v, current_ref=i)
     t_cold, t_hot = f(v, "temperature_cold"), f(v, "temperature_hot")
+    if t_cold > t_hot:
+        raise InputError(
+            "temperature_cold",
+            format_value(t_cold, "temperature"),
+            f"a temperature at or below temperature_hot ({format_value(t_hot, 'temperature')})",
+        )
     warnings: list[str] = []
     notes: list[str] = []
     if i > m.current_max:
@@ -313,6 +326,12 @@ def _string(v: V) -> Result:
             )
         if pick.current_max > m.current_max:
             warnings.append("At the worst corner the string current exceeds the module's maximum.")
+        if pick.resistor_power > 3.0:
+            warnings.append(
+                f"The ballast would dissipate {format_value(pick.resistor_power, 'power')} at the worst corner: "
+                "beyond the small resistors used for ballast (common practice: up to about 3 W). "
+                "Use more modules in series or a lower supply."
+            )
         notes.append("Worst-case high: high supply, low Vf, hot. Low: low supply, high Vf, cold.")
         values: dict[str, Value] = {
             "series": float(pick.series),
@@ -341,6 +360,12 @@ def _string(v: V) -> Result:
         return Result(values, rows, tuple(notes), tuple(warnings), caution_text.LOW_VOLTAGE)
     if supply == "cc":
         mods = opt(v, "modules")
+        if f(v, "driver_v_min") >= f(v, "driver_v_max"):
+            raise InputError(
+                "driver_v_min",
+                format_value(f(v, "driver_v_min"), "voltage"),
+                f"a voltage below driver_v_max ({format_value(f(v, 'driver_v_max'), 'voltage')})",
+            )
         cc = strings.cc_options(
             m,
             f(v, "driver_current"),
@@ -392,6 +417,11 @@ def _string(v: V) -> Result:
         )
     frac = f(v, "bus_fraction")
     pick_d = min(dopts, key=lambda o: abs(o.fraction - frac))
+    if pick_d.current_high_mains > m.current_max:
+        warnings.append(
+            f"At high mains the string current reaches {format_value(pick_d.current_high_mains, 'current')}, "
+            f"above the module's maximum {format_value(m.current_max, 'current')}."
+        )
     notes.append(
         "A higher bus needs a smaller dropper and wastes less in it, but the current follows the mains more "
         "steeply (sensitivity = Vpk / (Vpk - Vbus - 2 Vd)) and a low-mains dip dims it more."

@@ -228,8 +228,9 @@ def _unit_factor(dim: Dimension, unit: str) -> float | None:
                 prefix = unit[: -len(base)].strip()
                 if prefix in PREFIXES:
                     return 10.0 ** PREFIXES[prefix]
-        # "470k" style: a bare prefix with the symbol left out (resistance only)
-        if dim.name == "resistance" and unit in PREFIXES:
+        # "470k" style: a bare multiplier with the symbol left out (resistance only; "100n"
+        # or "10u" are capacitor codes and are never read as ohms)
+        if dim.name == "resistance" and unit in ("k", "K", "M", "G"):
             return 10.0 ** PREFIXES[unit]
     # the same spellings in any case, where that gives one reading
     low = unit.lower()
