@@ -121,6 +121,7 @@ ACCEPTED = [
     ("2,2 Ω", "resistance", 2.2),
     ("1,500,000 Ω", "resistance", 1.5e6),
     ("10 OHM", "resistance", 10.0),
+    ("1 MOHM", "resistance", 1e6),
     ("2u2", "capacitance", 2.2e-6),
     ("1n5", "capacitance", 1.5e-9),
     ("4p7", "capacitance", 4.7e-12),
@@ -168,6 +169,9 @@ REFUSED = [
     # mF against the old MF marking: both readings named
     ("1 MF", "capacitance", ["µF", "mF", "old MF marking"]),
     ("10 mf", "capacitance", ["10 µF", "10 mF"]),
+    # capitals throughout: M may be caps-lock milli or mega
+    ("350 MA", "current", ["350 mA", "350 MA", "milli", "mega"]),
+    ("2 MM", "length", ["2 mm", "2 Mm"]),
     # mixed marks, broken grouping
     ("1,234.5 V", "voltage", ["one decimal mark"]),
     ("1,23,456 V", "voltage", ["without group separators"]),

@@ -208,6 +208,10 @@ _FOLD = {"U": "u", "N": "n", "P": "p", "g": "G", "K": "k"}
 _MFD = ("mfd", "mfds", "ufd", "µfd", "μfd")
 _MF_AMBIGUOUS = ("MF", "mf", "Mf", "MF.", "mf.")
 
+#: Dimensions whose symbol is all capitals, where "M" could be mega or a capitalised
+#: milli and no mega value belongs on a fixture's bench.
+_CAPS_MEGA = ("current", "voltage", "power", "energy")
+
 #: Most characters a typed value may have (a hostile megabyte is refused at once).
 MAX_TEXT = 100
 #: Largest and smallest magnitudes (SI) any field reads; beyond them is a typing slip.
@@ -226,6 +230,9 @@ def _unit_factor(dim: Dimension, unit: str) -> float | None:
         for base in dim.prefixed:
             if unit.endswith(base):
                 prefix = unit[: -len(base)].strip()
+                if prefix == "M" and dim.name in _CAPS_MEGA:
+                    # "350 MA" is mega by the book and caps-lock milli in practice
+                    raise _Ambiguous(((-3, "milli", "m" + base), (6, "mega", "M" + base)))
                 if prefix in PREFIXES:
                     return 10.0 ** PREFIXES[prefix]
         # "470k" style: a bare multiplier with the symbol left out (resistance only; "100n"
@@ -245,6 +252,9 @@ def _unit_factor(dim: Dimension, unit: str) -> float | None:
             if low.endswith(base.lower()):
                 prefix = unit[: len(unit) - len(base)].strip()
                 prefix = _FOLD.get(prefix, prefix)
+                if prefix == "M" and dim.name != "resistance":
+                    # the symbol's case is off ("350 MA", "2 MM"), so its M may be caps-lock milli
+                    raise _Ambiguous(((-3, "milli", "m" + base), (6, "mega", "M" + base)))
                 if prefix in PREFIXES:
                     return 10.0 ** PREFIXES[prefix]
     return None
@@ -468,11 +478,13 @@ def format_value(x: float, dim_name: str, digits: int | None = 4) -> str:
     if x == 0:
         return f"0 {dim.symbol}"
     exp = int(math.floor(math.log10(abs(x)) / 3) * 3)
-    # farads take no prefix above one: "MF" would read as the old microfarad marking
-    exp = max(-12, min(0 if dim.name == "capacitance" else 9, exp))
+    # no prefix that reads two ways: farads stop at F ("MF" is the old microfarad
+    # marking), volts, amps, watts and joules at k ("MA" may be caps-lock milli)
+    top = 0 if dim.name == "capacitance" else 3 if dim.name in _CAPS_MEGA else 9
+    exp = max(-12, min(top, exp))
     # a rounded mantissa can reach 1000: move up a prefix
     mant = _mantissa(x, exp, digits)
-    if digits is not None and abs(float(mant)) >= 1000 and exp < (0 if dim.name == "capacitance" else 9):
+    if digits is not None and abs(float(mant)) >= 1000 and exp < top:
         exp += 3
         mant = _mantissa(x, exp, digits)
     if dim.name == "tempco":
