@@ -415,3 +415,61 @@ def test_small_random_sweep_converges_or_refuses() -> None:
     assert s["violations"] == []
     assert s["converged"] + s["refused"] == 24
     assert s["converged"] >= 12  # the ranges are mostly buildable: a sweep that refuses all proves nothing
+
+
+UNITS = {
+    "voltage": "V",
+    "current": "A",
+    "capacitance": "F",
+    "resistance": "Ω",
+    "power": "W",
+    "time": "s",
+    "temperature": "°C",
+    "ratio": "",
+    "thermal_resistance": "K/W",
+    "tempco": "V/K",
+    "count": "",
+    "area": "mm2",
+    "length": "m",
+    "frequency": "Hz",
+}
+
+
+def _design_keys() -> list[tuple[str, str, str]]:
+    from lampcalc.fixture.design import SCHEMA
+
+    out = []
+    for table, spec in SCHEMA.items():
+        for key, (dim, _, _) in spec.items():
+            if dim in UNITS and table:
+                out.append((table, key, UNITS[dim]))
+    return out
+
+
+def _set_key(text: str, table: str, key: str, value: str) -> str:
+    """The design with ``[table] key`` set to ``value`` (the table is added if absent)."""
+    lines, out, inside, done = text.splitlines(), [], False, False
+    for line in lines:
+        if line.startswith("["):
+            if inside and not done:
+                out.append(f"{key} = {value}")
+                done = True
+            inside = line.strip() == f"[{table}]"
+        elif inside and line.split("=")[0].strip() == key:
+            continue
+        out.append(line)
+    if not done:
+        out += ([] if inside else ["", f"[{table}]"]) + [f"{key} = {value}"]
+    return "\n".join(out)
+
+
+@pytest.mark.parametrize(("table", "key", "unit"), _design_keys())
+def test_every_design_key_at_zero_negative_and_huge(table: str, key: str, unit: str) -> None:
+    base = (ROOT / "docs" / "designs" / ("panel-24v.toml" if table == "supply" else "panel-230.toml")).read_text()
+    for number in ("0", "-1", "1e6", "1e-9"):
+        value = f'"{number} {unit}"' if unit else number
+        text = _set_key(base, table, key, value)
+        with no_hang((table, key, value)):
+            data = assert_json_reply(handle(json.dumps({"kind": "check", "toml": text})), (table, key, value))
+        if data["ok"]:
+            strict(json.dumps(data))
