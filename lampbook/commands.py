@@ -49,7 +49,11 @@ def run_check(args: argparse.Namespace) -> int:
         return 2
     ans = handle("check", {"toml": text, "waveforms": args.waveforms})
     if not ans["ok"]:
-        return _errors(ans["errors"], f"lampbook check {args.design}")
+        rc = _errors(ans["errors"], f"lampbook check {args.design}")
+        # a valid design with no periodic steady state is a finding about the design (exit 1),
+        # not bad input (exit 2)
+        solver = all(not e.get("field") and e["message"].startswith("steady state did not") for e in ans["errors"])
+        return 1 if solver else rc
     ans.pop("ok")
     if args.json:
         from lampcalc.api import dumps

@@ -473,3 +473,16 @@ def test_every_design_key_at_zero_negative_and_huge(table: str, key: str, unit: 
             data = assert_json_reply(handle(json.dumps({"kind": "check", "toml": text})), (table, key, value))
         if data["ok"]:
             strict(json.dumps(data))
+
+
+def test_check_exits_1_with_a_reason_when_there_is_no_steady_state(monkeypatch: pytest.MonkeyPatch) -> None:
+    import lampcalc.design_api as design_api
+    from lampcalc.errors import ConvergenceError
+
+    def no_steady_state(kind: str, req: dict[str, Any]) -> dict[str, Any]:
+        e = ConvergenceError("events", "too many switching events in one half period")
+        return {"ok": False, "errors": [{"field": "", "value": "", "expected": "", "message": str(e)}]}
+
+    monkeypatch.setattr(design_api, "handle", no_steady_state)
+    rc, _, err = run_cli(["check", str(DEMOS[0])])
+    assert rc == 1 and "steady state did not converge" in err and "Traceback" not in err
