@@ -249,6 +249,8 @@ def _unit_factor(dim: Dimension, unit: str) -> float | None:
         return folded.pop()
     if dim.use_prefixes:
         for base in sorted(dim.prefixed, key=len, reverse=True):
+            if base == "E":
+                continue  # a lowercase "e" after a number is an exponent cut short, not ohms
             if low.endswith(base.lower()):
                 prefix = unit[: len(unit) - len(base)].strip()
                 prefix = _FOLD.get(prefix, prefix)
@@ -262,9 +264,9 @@ def _unit_factor(dim: Dimension, unit: str) -> float | None:
 
 # IEC 60062 letter-and-digit codes: the letter stands for the decimal point and
 # gives the multiplier ("4k7" = 4.7 kΩ, "R47" = 0.47 Ω, "2u2" = 2.2 µF, "1n5" = 1.5 nF).
-_CODE = re.compile(r"^(\d*)([A-Za-zµμ])(\d*)$")
+_CODE = re.compile(r"^(\d*)([A-Za-zµμ])(\d*)$|^(\d*\.\d+|\d+\.)([A-Za-zµμ])$")
 _CODE_LETTERS: dict[str, dict[str, int]] = {
-    "resistance": {"R": 0, "r": 0, "E": 0, "e": 0, "k": 3, "K": 3, "M": 6, "G": 9},
+    "resistance": {"R": 0, "r": 0, "E": 0, "k": 3, "K": 3, "M": 6, "G": 9},
     "capacitance": {"p": -12, "P": -12, "n": -9, "N": -9, "u": -6, "U": -6, "µ": -6, "μ": -6, "m": -3},
 }
 #: Letters used when writing a code, by exponent.
@@ -286,7 +288,14 @@ def _code(dim: Dimension, text: str) -> float | None:
             t = t[: -len(tail)]
             break
     m = _CODE.match(t)
-    if not m or (not m.group(1) and not m.group(3)):
+    if not m:
+        return None
+    if m.group(4):  # "2.2u", "0.1u": a decimal number and a trailing multiplier letter
+        letter, number = m.group(5), m.group(4)
+        if letter not in letters or letter in "Ee":
+            return None
+        return _scale(number, letters[letter])
+    if not m.group(1) and not m.group(3):
         return None
     letter = m.group(2)
     if letter not in letters or (letter in "Ee" and m.group(1) and m.group(3)):
