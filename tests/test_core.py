@@ -322,6 +322,8 @@ def test_blank_required_value_is_an_error_not_the_default() -> None:
     assert not ans["ok"]
     assert [e["field"] for e in ans["errors"]] == ["capacitance"]
     assert "blank" in ans["errors"][0]["message"]
+    assert [e["field"] for e in compute("quantity", {"text": " "})["errors"]] == ["text"]
+    assert [e["field"] for e in compute("preferred", {"value": ""})["errors"]] == ["value"]
     # an optional field left blank is simply absent; a mains field takes the preset
     assert compute("dropper", {"bleeder": "", "mains_tolerance": " "})["ok"]
 

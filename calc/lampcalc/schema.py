@@ -109,7 +109,7 @@ def parse_inputs(calc: Calculator, raw: Mapping[str, object]) -> dict[str, Value
     for p in calc.params:
         given = raw.get(p.name)
         if isinstance(given, str) and given.strip() == "":
-            if p.default is not None and p.dim != "text":
+            if p.default is not None:
                 errors.append(InputError(p.name, given, _blank_expected(p)))
                 continue
             given = None
@@ -170,6 +170,8 @@ def _blank_expected(p: Param) -> str:
     if p.dim in ("choice", "region"):
         allowed = p.choices if p.dim == "choice" else (*PRESETS, "custom")
         what = "one of " + ", ".join(allowed)
+    elif p.dim == "text":
+        what = f"a value such as '{p.default}'"
     else:
         what = dimension(p.dim).expected
     return f"{what}; a blank is not read as the default ('{p.default}': leave the option out for that)"
