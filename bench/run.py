@@ -211,8 +211,17 @@ def bench_native_study() -> dict[str, float]:
     return out
 
 
+def bench_sweep() -> dict[str, object]:
+    """The seeded 2,000-design random sweep through `check` (bench/sweep.py)."""
+    sys.path.insert(0, str(ROOT / "bench"))
+    from sweep import sweep
+
+    return sweep(2000)
+
+
 def main() -> None:
     t0 = time.time()
+    design_sweep = bench_sweep()
     calcs = bench_calculators()
     studies = bench_pyodide_study()
     native = bench_native_study()
@@ -230,6 +239,7 @@ def main() -> None:
         "study_pyodide": studies,
         "study_native_s": native,
         "catalogue": catalogue,
+        "sweep": design_sweep,
     }
     (ROOT / "bench" / "results.json").write_text(json.dumps(data, indent=1, sort_keys=True))
     lines = [
@@ -303,6 +313,9 @@ def main() -> None:
         f"{browser['source_stdlib']['build_s']:.1f} s without compiling.",
     ]  # type: ignore[index]
     lines += ["", *catalogue_lines(catalogue)]
+    from sweep import markdown
+
+    lines += markdown(design_sweep)
     (ROOT / "bench" / "RESULTS.md").write_text("\n".join(lines) + "\n")
     print("\n".join(lines))
 
