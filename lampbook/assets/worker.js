@@ -14,9 +14,14 @@ let api = null;
 const fetched = [];
 const networkFetch = self.fetch.bind(self);
 self.fetch = async (input, init) => {
-  const response = await networkFetch(input, init);
   const url = new URL(input instanceof Request ? input.url : String(input), base).href;
-  if (response.ok && url.startsWith(base)) fetched.push({ url, copy: response.clone() });
+  const mine = url.startsWith(base);
+  // already in a cache (a later visit, served by the service worker): nothing to hand over
+  const [response, cached] = await Promise.all([
+    networkFetch(input, init),
+    mine && self.caches ? caches.match(url).catch(() => null) : null,
+  ]);
+  if (mine && !cached && response.ok) fetched.push({ url, copy: response.clone() });
   return response;
 };
 
@@ -44,13 +49,9 @@ const ready = (async () => {
 
 async function store() {
   try {
-    if (!self.caches) return;
+    if (!self.caches || !fetched.length) return;
     const staged = await caches.open("lampbook-staged");
-    for (const { url, copy } of fetched.splice(0)) {
-      // already in a cache (a later visit, served by the service worker): nothing to hand over
-      if (await caches.match(url)) await copy.body?.cancel();
-      else await staged.put(url, copy);
-    }
+    for (const { url, copy } of fetched.splice(0)) await staged.put(url, copy);
   } catch (e) {
     // no room or no cache storage: the service worker downloads the files itself
   } finally {
