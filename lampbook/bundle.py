@@ -373,16 +373,18 @@ def _wheel_modules(wheel: Path) -> list[str]:
 def exercise(wheel: Path, designs: list[Path]) -> dict[str, Any]:
     """What the measuring run does besides starting the engine: import every module of
     the core, describe, compute every calculator with its defaults and with a bad value
-    in each field, answer bad requests, and check, study and sheet each design file."""
+    in each field, answer bad requests, and check, study and sheet the starter design
+    (any page may open a design file) and each of DESIGNS."""
     from lampcalc.calculators import CALCULATORS
+
+    from .scaffold import DESIGN
 
     requests: list[dict[str, Any]] = [{"kind": "describe"}, {"kind": "no such kind"}]
     for name, calc in CALCULATORS.items():
         requests.append({"kind": "compute", "calculator": name, "inputs": {}})
         for p in calc.params:
             requests.append({"kind": "compute", "calculator": name, "inputs": {p.name: "1e999 zz"}})
-    for d in designs:
-        toml = d.read_text(encoding="utf-8")
+    for toml in [DESIGN, *(d.read_text(encoding="utf-8") for d in designs)]:
         requests.append({"kind": "check", "toml": toml, "waveforms": True})
         requests.append({"kind": "study", "toml": toml, "samples": 8, "seed": 1})
         requests.append({"kind": "sheet", "toml": toml})
