@@ -41,7 +41,7 @@ const ready = (async () => {
     phases.package = performance.now();
     api = py.pyimport("lampcalc.api");
   } catch (e) {
-    throw new Error("the core did not install: " + String(e && e.message ? e.message : e));
+    throw new Error("the core did not install: " + String(e && e.message ? e.message : e), { cause: e });
   }
   phases.imported = performance.now();
   return true;
