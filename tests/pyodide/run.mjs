@@ -91,6 +91,11 @@ const code = await py.runPythonAsync(`
 import os, sys
 os.chdir("/work/tests")
 import pytest
+from hypothesis import settings
+# no per-example deadline in here: the interpreter runs slower than natively and the machine may be
+# shared; speed is measured by the benchmarks, not by timed tests
+settings.register_profile("pyodide", deadline=None)
+settings.load_profile("pyodide")
 import lampcalc
 print("lampcalc from", lampcalc.__file__, "on Python", sys.version.split()[0], sys.platform)
 pytest.main(["-q", "-p", "no:cacheprovider", "--strict-markers", *${JSON.stringify(files.map((f) => basename(f)))}])
