@@ -150,7 +150,7 @@ class LampbookPlugin(BasePlugin[LampbookConfig]):  # type: ignore[no-untyped-cal
         log.info("engine bundled, offline cache %s", version)
 
 
-def _search_languages(config: Any) -> list[str] | None:
+def _search_languages(config: MkDocsConfig) -> list[str] | None:
     """The search plugin's languages (its default: the theme's language, else English);
     None when the site has no search plugin we know (then every bundle is cached)."""
     for name in ("search", "material/search"):
