@@ -47,3 +47,11 @@ class LampbookConfig(base.Config):  # type: ignore[no-untyped-call]  # mkdocs le
     compress = c.Type(bool, default=True)
     """Write gzip (and, where the brotli package is installed, brotli) siblings of large text, JavaScript,
     JSON and wasm files, for hosts that serve precompressed files."""
+    review_jobs = c.Type(int, default=0)
+    """Worker processes that review designs needing a review: 0 for as many as the machine has cores, 1 for none."""
+
+    review_cache = c.Type(bool, default=True)
+    """Keep each design's review under cache_dir/reviews, keyed by the design text, the core and the options."""
+
+    designs_index = c.Type(bool, default=True)
+    """Generate the fixtures index page (index.md in the designs folder) unless the folder has its own."""
