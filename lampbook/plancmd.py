@@ -4,12 +4,11 @@ from __future__ import annotations
 
 import argparse
 import json
-import os
 import sys
-import tempfile
 from pathlib import Path
 from typing import Any
 
+from .atomic import write_atomic
 from .report import bullets, table
 
 
@@ -17,19 +16,6 @@ def _fail(prefix: str, errors: list[dict[str, str]]) -> int:
     for e in errors:
         print(f"{prefix}: {e['message']}", file=sys.stderr)
     return 2
-
-
-def write_atomic(path: Path, text: str) -> None:
-    """Write through a temporary file in the same folder, renamed into place."""
-    fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=path.parent)
-    try:
-        with os.fdopen(fd, "w", encoding="utf-8") as fh:
-            fh.write(text)
-        os.replace(tmp, path)
-    except BaseException:
-        if os.path.exists(tmp):
-            os.unlink(tmp)
-        raise
 
 
 def run_plan(args: argparse.Namespace) -> int:
