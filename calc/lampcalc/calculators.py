@@ -1133,7 +1133,7 @@ def _light(v: V) -> Result:
             }
         )
     rows: list[dict[str, Value]] = []
-    for k in (0.5, 1.0, 2.0, 3.0, 5.0):
+    for k in (0.5, 1.0, 2.0, 4.0):
         dd = dist * k
         e_ax = light.cone_illuminance(flux, beam, dd)
         row: dict[str, Value] = {
@@ -1264,11 +1264,10 @@ LIGHT = Calculator(
     _light,
     columns=(
         Output("distance", "Distance", "length"),
-        Output("distance_ft", "ft", "text"),
+        Output("distance_ft", "", "text"),
         Output("illuminance_axis", "On axis", "illuminance"),
-        Output("illuminance_axis_fc", "fc", "text"),
-        Output("field_diameter", "Field", "length"),
         Output("illuminance_average", "Average", "illuminance"),
+        Output("field_diameter", "Field", "length"),
     ),
 )
 
@@ -1276,7 +1275,7 @@ LIGHT = Calculator(
 # --- camera -----------------------------------------------------------------------
 
 
-def _light_shape(shape: str, m: float, n: int = 1024) -> list[float]:
+def _light_shape(shape: str, m: float, n: int = 512) -> list[float]:
     """One ripple period of relative light with percent flicker 100·m."""
     if shape == "sine":
         return [1 + m * math.sin(2 * math.pi * k / n) for k in range(n)]
@@ -1302,7 +1301,7 @@ def _camera(v: V) -> Result:
             )
     thr = f(v, "threshold")
     exp = camera.Exposure(_light_shape(str(v["shape"]), m), 1 / ripple)
-    var, lo, hi = exp.variation(tau, 512)
+    var, lo, hi = exp.variation(tau)
     band = ieee1789_band(100 * m, ripple)
     rows: tuple[Mapping[str, Value], ...] = tuple(
         {
@@ -1330,9 +1329,9 @@ def _camera(v: V) -> Result:
             "exposure_high": hi,
             "beat": camera.beat_frequency(ripple, fps),
             "verdict": "under the threshold" if ok else "over the threshold",
-            "safe": ", ".join(f"{format_value(a, 'time', 3)} to {format_value(b, 'time', 3)}" for a, b in ranges)
-            or "none on the grid",
-            "zero": ", ".join(format_value(t, "time", 4) for t in zero) or "none within one frame",
+            "safe": "; ".join(f"{format_value(a, 'time', 3)}–{format_value(b, 'time', 3)}" for a, b in ranges)
+            or "none",
+            "zero": ", ".join(format_value(t, "time", 3) for t in zero) or "none within one frame",
             "flicker_band": band.name,
         },
         rows,
@@ -1404,13 +1403,13 @@ CAMERA = Calculator(
     (
         Output("shutter_time", "Shutter time", "time"),
         Output("ripple_frequency", "Ripple frequency", "frequency"),
-        Output("variation", "Frame-to-frame exposure variation (worst phase)", "ratio"),
-        Output("exposure_low", "Darkest frame against the mean", "ratio"),
-        Output("exposure_high", "Brightest frame against the mean", "ratio"),
+        Output("variation", "Exposure variation, worst phase", "ratio"),
+        Output("exposure_low", "Darkest frame / mean", "ratio"),
+        Output("exposure_high", "Brightest frame / mean", "ratio"),
         Output("beat", "Shows at", "frequency"),
         Output("verdict", "Against your threshold", "text"),
-        Output("safe", "Shutter times under the threshold", "text"),
-        Output("zero", "Zero-variation shutter times", "text"),
+        Output("safe", "Shutter times under it", "text"),
+        Output("zero", "No variation at", "text"),
         Output("flicker_band", "IEEE 1789 band", "text"),
     ),
     _camera,

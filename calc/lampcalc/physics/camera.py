@@ -102,7 +102,9 @@ class Exposure:
         ref = tau * self.mean
         vals = [self.window(self.period * j / m, tau) / ref for j in range(m)]
         lo, hi = min(vals), max(vals)
-        return (hi - lo, lo, hi)
+        spread = hi - lo
+        # below 1e-12 of the mean is rounding in the sums: a whole number of periods gives exactly zero
+        return (spread if spread > 1e-12 else 0.0, lo, hi)
 
 
 @dataclass(frozen=True)
@@ -130,7 +132,7 @@ def settings(exp: Exposure, fps: float, threshold: float, phases: int | None = N
 
 
 def safe_ranges(
-    exp: Exposure, fps: float, threshold: float, points: int = 96, phases: int | None = 256
+    exp: Exposure, fps: float, threshold: float, points: int = 96, phases: int | None = 64
 ) -> tuple[tuple[float, float], ...]:
     """Ranges of shutter time from 1/8000 s to one frame (log grid of
     ``points``) where the variation stays at or under ``threshold``. The ends
@@ -167,7 +169,7 @@ def ripple_multiples(ripple: float, fps: float) -> tuple[float, ...]:
     return tuple(k * period for k in range(1, n + 1))
 
 
-def sweep(exp: Exposure, fps: float, points: int = 48, phases: int | None = 256) -> tuple[tuple[float, float], ...]:
+def sweep(exp: Exposure, fps: float, points: int = 48, phases: int | None = 64) -> tuple[tuple[float, float], ...]:
     """(shutter time, variation) on a log grid from 1/8000 s to one frame, for plotting."""
     _check_fps(fps)
     lo, hi = 1.0 / 8000, 1.0 / fps

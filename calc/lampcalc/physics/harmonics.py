@@ -11,8 +11,9 @@ at t = 0, which is how the steady-state solver's mains voltage starts. Order n
 is exact for a band-limited waveform when N > 2 n; for a real waveform with
 kinks the orders above N/2 fold back onto the low ones (aliasing), so the grid
 must be much finer than twice the highest order asked for: the solver's
-current of a dropper fixture needs a few thousand points per period to hold
-order 40 to well under 0.1 % of the fundamental (see ``tests/test_harmonics.py``).
+current of a dropper fixture sampled on 200 points per period is off by up
+to about 0.1 % of the fundamental at some order, on 1024 points by well under
+0.01 % (see ``tests/test_harmonics.py``).
 
 Power factor with a sinusoidal voltage (textbook identity):
 PF = P / (V I) = (I_1 / I) cos(phi_1) = distortion factor x displacement factor.
@@ -31,7 +32,7 @@ from ..errors import InputError
 ORDERS = 40
 #: Samples per period the fixture check asks the solver for: far above 2 x 40,
 #: so the folded-back content of orders above N/2 stays negligible.
-SAMPLES = 2048
+SAMPLES = 1024
 
 
 @dataclass(frozen=True)
@@ -87,17 +88,27 @@ def spectrum(samples: Sequence[float], orders: int = ORDERS) -> Spectrum:
     sin_t = [math.sin(2 * math.pi * k / n) for k in range(n)]
     rms = [sum(samples) / n]
     phase = [0.0]
+    # half-wave symmetry (x(t + T/2) = -x(t), as a bridge draws): the even orders vanish and each odd
+    # order is twice the sum over the first half, so only that half is summed
+    half = n // 2
+    big = max(abs(x) for x in samples)
+    symmetric = n % 2 == 0 and all(abs(samples[k] + samples[k + half]) <= 1e-12 * big for k in range(half))
+    body = samples[:half] if symmetric else samples
     for order in range(1, orders + 1):
+        if symmetric and order % 2 == 0:
+            rms.append(0.0)
+            phase.append(0.0)
+            continue
         a = b = 0.0
         idx = 0
-        for x in samples:
+        for x in body:
             a += x * cos_t[idx]
             b += x * sin_t[idx]
             idx += order
             if idx >= n:
                 idx -= n
-        a *= 2 / n
-        b *= 2 / n
+        a *= (4 if symmetric else 2) / n
+        b *= (4 if symmetric else 2) / n
         rms.append(math.hypot(a, b) / math.sqrt(2))
         phase.append(math.atan2(a, b))
     total = math.sqrt(sum(x * x for x in samples) / n)
