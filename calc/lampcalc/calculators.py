@@ -1239,13 +1239,10 @@ LIGHT = Calculator(
             "angle",
             "110°",
             "Full cone angle of the beam.",
-            0.0,
+            0.1,
             360.0,
-            exclusive_min=True,
         ),
-        Param(
-            "distance", "Distance to the target", "length", "3 m", "", 0.0, 1e5, imperial="10 ft", exclusive_min=True
-        ),
+        Param("distance", "Distance to the target", "length", "3 m", "", 0.01, 1e5, imperial="10 ft"),
     ),
     (
         Output("module_flux", "Flux per module", "luminous_flux"),
@@ -1278,7 +1275,7 @@ LIGHT = Calculator(
 def _light_shape(shape: str, m: float, n: int = 512) -> list[float]:
     """One ripple period of relative light with percent flicker 100·m."""
     if shape == "sine":
-        return [1 + m * math.sin(2 * math.pi * k / n) for k in range(n)]
+        return [max(1 + m * math.sin(2 * math.pi * k / n), 0.0) for k in range(n)]
     if shape == "sawtooth":
         return [1 + m - 2 * m * k / n for k in range(n)]
     # rectified sine riding on a floor a: min a, max a + 1
@@ -1384,17 +1381,16 @@ CAMERA = Calculator(
         ),
         Param("frame_rate", "Frame rate", "frame_rate", "24 fps", "Frames per second.", 1.0, 10000.0),
         Param("shutter", "Shutter given as", "choice", "angle", "", choices=("angle", "time")),
-        Param("shutter_angle", "Shutter angle", "angle", "180°", "", 0.0, 360.0, modes=("angle",), exclusive_min=True),
+        Param("shutter_angle", "Shutter angle", "angle", "180°", "", 0.1, 360.0, modes=("angle",)),
         Param(
             "shutter_time",
             "Shutter time",
             "time",
             "10 ms",
             "1/100 s is 10 ms.",
-            0.0,
+            1e-6,
             10.0,
             modes=("time",),
-            exclusive_min=True,
         ),
         Param(
             "threshold", "Largest variation you accept", "ratio", "2 %", "Your own limit.", 0.0, 1.0, exclusive_min=True

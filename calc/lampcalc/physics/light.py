@@ -78,7 +78,10 @@ class FluxModel:
 def solid_angle(beam: float) -> float:
     """Solid angle (sr) of a cone of full angle ``beam`` (radians)."""
     _check_beam(beam, 2 * math.pi)
-    return 2 * math.pi * (1 - math.cos(beam / 2))
+    omega = 4 * math.pi * math.sin(beam / 4) ** 2  # = 2 pi (1 - cos(beam / 2)), without the cancellation
+    if omega <= 0:
+        raise InputError("beam_angle", math.degrees(beam), "a beam angle of 0.1° or more")
+    return omega
 
 
 def _check_beam(beam: float, top: float) -> None:
