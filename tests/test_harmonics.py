@@ -316,3 +316,21 @@ def test_half_wave_symmetric_shortcut_matches_numpy() -> None:
     ref = np.abs(np.fft.rfft(np.array(xs))) * 2 / n / math.sqrt(2)
     assert np.allclose(np.array(sp.rms[1:41]), ref[1:41], atol=1e-12)
     assert sp.phase[3] == pytest.approx(-1.0, abs=1e-12)
+
+
+@pytest.mark.reference
+def test_H4_H7_harmonics_calculator_bands_and_verdict() -> None:
+    from lampcalc.api import compute
+
+    base = {"fundamental": "0.1 A", "power_factor": "0.9", "h3": "26.9 %"}
+    assert compute("harmonics", {**base, "active_power": "25.01 W"})["values"]["verdict"] == "pass"  # 27 % limit
+    over = compute("harmonics", {**base, "h3": "27.1 %", "active_power": "25.01 W"})
+    assert over["values"]["verdict"] == "over a limit" and over["warnings"]
+    assert "5-25 W" in compute("harmonics", {**base, "active_power": "25 W"})["values"]["band"]
+    assert "no limits" in compute("harmonics", {**base, "active_power": "5 W"})["values"]["band"]
+    a = compute("harmonics", {"emission_class": "A", "active_power": "500 W"})
+    assert a["rows"][1]["order"] == 3 and a["rows"][1]["limit"] == 2.30
+    us = compute("harmonics", {**base, "mains_voltage": "120 V", "active_power": "40 W"})
+    assert us["values"]["applies"].startswith("a guide")
+    bad = compute("harmonics", {"emission_class": "E"})
+    assert not bad["ok"] and bad["errors"][0]["field"] == "emission_class"

@@ -8,7 +8,7 @@ from collections.abc import Mapping
 
 from . import cautions as caution_text
 from .errors import InputError, NoSolutionError
-from .physics import camera, light, strings, wire
+from .physics import camera, harmonic_limits, light, strings, wire
 from .physics import dropper as drop
 from .physics import ripple as rip
 from .physics.flicker import ieee1789_band
@@ -1419,8 +1419,138 @@ CAMERA = Calculator(
 )
 
 
+# --- harmonic limits ---------------------------------------------------------------
+
+
+def _harmonics(v: V) -> Result:
+    cls = str(v["emission_class"])
+    p, pf, vn = f(v, "active_power"), f(v, "power_factor"), f(v, "mains_voltage")
+    i1 = opt(v, "fundamental")
+    if i1 is None:
+        i1 = p / (vn * pf)  # a rough stand-in: the whole current taken as fundamental
+    measured = {n: opt(v, f"h{n}") for n in (3, 5, 7, 9, 11, 13)}
+    currents = [0.0, i1] + [0.0] * 39
+    for n, x in measured.items():
+        if x is not None:
+            currents[n] = x * i1
+    angles = None
+    if all(opt(v, k) is not None for k in ("angle_start", "angle_peak", "angle_stop")):
+        angles = (f(v, "angle_start"), f(v, "angle_peak"), f(v, "angle_stop"))
+    verdict = harmonic_limits.verdict(cls, currents, p, pf, vn, angles)
+    rows: list[dict[str, Value]] = []
+    for n in range(2, 41):
+        lim = verdict.limits[n]
+        if lim is None:
+            continue
+        given = measured.get(n)
+        rows.append(
+            {
+                "order": float(n),
+                "limit": lim,
+                "limit_pct": lim / i1 if i1 > 0 else None,
+                "measured": given * i1 if given is not None else None,
+                "status": verdict.status[n] if given is not None else "",
+            }
+        )
+    some = any(x is not None for x in measured.values())
+    notes = [
+        f"Limits: {harmonic_limits.SOURCE}; check against the standard before relying on a verdict.",
+        "Class C (lighting equipment): above 25 W a table of percentages of the fundamental, the 3rd scaled by "
+        "the power factor; from 5 W to 25 W either the Class D per-watt limits or the 3rd and 5th against the "
+        "fundamental with the current waveform's angles; at or below 5 W no limits. Class A (professional stage "
+        "and studio luminaires): absolute amperes whatever the power.",
+        *verdict.notes,
+    ]
+    if opt(v, "fundamental") is None:
+        notes.append(
+            "No fundamental current given: taken as P / (V x PF), which is close only when the current is nearly "
+            "sinusoidal. Type the measured fundamental for percentage limits you can rely on."
+        )
+    return Result(
+        {
+            "band": verdict.band,
+            "fundamental": i1,
+            "verdict": ("pass" if verdict.passed else "over a limit") if some else "no harmonics typed",
+            "applies": "yes" if verdict.applies else "a guide only (not a 220-240 V supply)",
+        },
+        tuple(rows),
+        tuple(notes),
+        () if verdict.passed or not some else (f"Over the limit at order {', '.join(map(str, verdict.failures))}.",),
+        cautions=(),
+    )
+
+
+HARMONICS = Calculator(
+    "harmonics",
+    "Harmonic current limits",
+    "The IEC 61000-3-2 limits for a fixture's class and power, and measured harmonics against them.",
+    (
+        Param(
+            "emission_class",
+            "Class",
+            "choice",
+            "C",
+            "C: lighting equipment; A: professional stage and studio luminaires.",
+            choices=harmonic_limits.CLASSES,
+        ),
+        Param(
+            "mains_voltage",
+            "Mains voltage (rms)",
+            "voltage",
+            "230 V",
+            "The standard is written for 220-240 V.",
+            1.0,
+            1000.0,
+        ),
+        Param("active_power", "Active input power", "power", "40 W", "", 0.0, 1e5),
+        Param("power_factor", "Power factor", "ratio", "0.5", "Circuit power factor (P / S).", 0.01, 1.0),
+        Param(
+            "fundamental",
+            "Fundamental current (rms)",
+            "current",
+            None,
+            "Measured or from a design's sheet.",
+            0.0,
+            1000.0,
+            exclusive_min=True,
+        ),
+        Param("h3", "3rd harmonic", "ratio", None, "Percent of the fundamental.", 0.0, 10.0),
+        Param("h5", "5th harmonic", "ratio", None, "", 0.0, 10.0),
+        Param("h7", "7th harmonic", "ratio", None, "", 0.0, 10.0),
+        Param("h9", "9th harmonic", "ratio", None, "", 0.0, 10.0),
+        Param("h11", "11th harmonic", "ratio", None, "", 0.0, 10.0),
+        Param("h13", "13th harmonic", "ratio", None, "", 0.0, 10.0),
+        Param(
+            "angle_start",
+            "Current starts at",
+            "angle",
+            None,
+            "5-25 W lighting: degrees from the voltage zero.",
+            -180.0,
+            180.0,
+        ),
+        Param("angle_peak", "Current's last peak at", "angle", None, "", -180.0, 180.0),
+        Param("angle_stop", "Current stops at", "angle", None, "", -180.0, 270.0),
+    ),
+    (
+        Output("band", "Rules that apply", "text"),
+        Output("fundamental", "Fundamental used", "current"),
+        Output("verdict", "Typed harmonics", "text"),
+        Output("applies", "Binding at this voltage", "text"),
+    ),
+    _harmonics,
+    columns=(
+        Output("order", "Order", "count"),
+        Output("limit", "Limit", "current"),
+        Output("limit_pct", "of I₁", "ratio"),
+        Output("measured", "Typed", "current"),
+        Output("status", "", "text"),
+    ),
+)
+
+
 CALCULATORS: dict[str, Calculator] = {
-    c.name: c for c in (DROPPER, STRING, RIPPLE, WIRE, MODULE, PREFERRED, MAINS, QUANTITY, LIGHT, CAMERA)
+    c.name: c for c in (DROPPER, STRING, RIPPLE, WIRE, MODULE, PREFERRED, MAINS, QUANTITY, LIGHT, CAMERA, HARMONICS)
 }
 
 
