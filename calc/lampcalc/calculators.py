@@ -1476,7 +1476,6 @@ def _harmonics(v: V) -> Result:
         tuple(rows),
         tuple(notes),
         () if verdict.passed or not some else (f"Over the limit at order {', '.join(map(str, verdict.failures))}.",),
-        cautions=(),
     )
 
 
@@ -1539,6 +1538,7 @@ HARMONICS = Calculator(
         Output("applies", "Binding at this voltage", "text"),
     ),
     _harmonics,
+    mains=True,
     columns=(
         Output("order", "Order", "count"),
         Output("limit", "Limit", "current"),

@@ -615,10 +615,12 @@ def spectrum_chart(h: list[dict[str, Any]]) -> str:
         parts.append(
             f'<rect x="{x + 1:.1f}" y="{y(v):.1f}" width="{bw - 2:.1f}" height="{H - B - y(v):.1f}" class="{cls}"/>'
         )
-        if lim is not None:
+        if lim is not None and lim <= top:
             ly = y(lim)
-            mark = "lim" if lim <= top else "lim off"
-            parts.append(f'<line x1="{x:.1f}" y1="{ly:.1f}" x2="{x + bw:.1f}" y2="{ly:.1f}" class="{mark}"/>')
+            parts.append(f'<line x1="{x:.1f}" y1="{ly:.1f}" x2="{x + bw:.1f}" y2="{ly:.1f}" class="lim"/>')
+        elif lim is not None:  # off the scale: a small arrow at the top
+            cx = x + bw / 2
+            parts.append(f'<path d="M{cx - 3:.1f} {T + 5} L{cx:.1f} {T} L{cx + 3:.1f} {T + 5}" class="lim up"/>')
         if r["order"] in (3, 5, 7, 9, 15, 21, 29, 39):
             parts.append(
                 f'<text x="{x + bw / 2:.1f}" y="{H - B + 12}" class="tk" text-anchor="middle">{r["order"]}</text>'
@@ -634,11 +636,11 @@ def spectrum_chart(h: list[dict[str, Any]]) -> str:
         f'<figure class="lb-fig"><svg viewBox="0 0 {W} {H}" role="img" '
         'aria-label="Line-current harmonics against the limits">'
         "<style>.ax{stroke:currentColor}.tk{font:10px sans-serif;fill:currentColor}.bar{fill:#c8780a}"
-        ".over{fill:#b3261e}.lim{stroke:#26323a;stroke-width:2}.off{stroke-dasharray:2 2;opacity:.4}</style>"
+        ".over{fill:#b3261e}.lim{stroke:#26323a;stroke-width:2;fill:none}.up{stroke-width:1.5}</style>"
         + "".join(parts)
         + "</svg><figcaption>Line current at nominal mains, orders 2 to 40 as % of the fundamental (bars; red: over "
-        "its limit); dark ticks: the IEC 61000-3-2 limit for the declared class (faint where off the scale; "
-        "no tick: no limit).</figcaption></figure>"
+        "its limit); dark ticks: the IEC 61000-3-2 limit for the declared class (an arrow at the top where "
+        "it is off the scale; no tick: no limit).</figcaption></figure>"
     )
 
 
