@@ -165,10 +165,10 @@ def spectrum_with(i1: float, pct: dict[int, float]) -> list[float]:
 @pytest.mark.parametrize(
     ("power", "band"),
     [
-        (5.0, "at or below 5 W"),  # H7: no limits at or below 5 W
+        (5.0, "≤ 5 W"),  # H7: no limits at or below 5 W
         (5.01, "5-25 W"),
         (25.0, "5-25 W"),  # H5: 5 W < P <= 25 W
-        (25.01, "above 25 W"),  # H4
+        (25.01, "over 25 W"),  # H4
     ],
 )
 def test_H4_H5_H7_class_C_power_bands_at_the_boundaries(power: float, band: str) -> None:
@@ -196,7 +196,7 @@ def test_H5_class_C_5_to_25W_alternatives() -> None:
     assert v.passed and "angles" in v.band  # 80 % <= 86 %, 50 % <= 61 %, shape met
     late_stop = (-20.0, 5.0, 85.0)  # stops before 90°
     v2 = lim.verdict("C", s, 20.0, 0.5, 230.0, late_stop)
-    assert not v2.passed and 3 in v2.failures and "per-watt" in v2.band
+    assert not v2.passed and 3 in v2.failures and "per watt" in v2.band
     # just over 86 % fails the second alternative even with a good shape
     v3 = lim.verdict("C", spectrum_with(0.1, {3: 86.1}), 20.0, 0.5, 230.0, good_shape)
     assert not v3.passed
@@ -331,6 +331,6 @@ def test_H4_H7_harmonics_calculator_bands_and_verdict() -> None:
     a = compute("harmonics", {"emission_class": "A", "active_power": "500 W"})
     assert a["rows"][1]["order"] == 3 and a["rows"][1]["limit"] == 2.30
     us = compute("harmonics", {**base, "mains_voltage": "120 V", "active_power": "40 W"})
-    assert us["values"]["applies"].startswith("a guide")
+    assert us["values"]["applies"].startswith("guide only")
     bad = compute("harmonics", {"emission_class": "E"})
     assert not bad["ok"] and bad["errors"][0]["field"] == "emission_class"

@@ -1455,10 +1455,7 @@ def _harmonics(v: V) -> Result:
     some = any(x is not None for x in measured.values())
     notes = [
         f"Limits: {harmonic_limits.SOURCE}; check against the standard before relying on a verdict.",
-        "Class C (lighting equipment): above 25 W a table of percentages of the fundamental, the 3rd scaled by "
-        "the power factor; from 5 W to 25 W either the Class D per-watt limits or the 3rd and 5th against the "
-        "fundamental with the current waveform's angles; at or below 5 W no limits. Class A (professional stage "
-        "and studio luminaires): absolute amperes whatever the power.",
+        harmonic_limits.RULES[cls],
         *verdict.notes,
     ]
     if opt(v, "fundamental") is None:
@@ -1471,7 +1468,7 @@ def _harmonics(v: V) -> Result:
             "band": verdict.band,
             "fundamental": i1,
             "verdict": ("pass" if verdict.passed else "over a limit") if some else "no harmonics typed",
-            "applies": "yes" if verdict.applies else "a guide only (not a 220-240 V supply)",
+            "applies": "yes" if verdict.applies else "guide only (not 220-240 V)",
         },
         tuple(rows),
         tuple(notes),

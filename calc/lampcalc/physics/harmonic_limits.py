@@ -49,6 +49,18 @@ CLASS_C_LOW_ANGLES = (60.0, 65.0, 90.0)  # start at or before, last peak at or b
 #: the current threshold that marks "flowing" in that alternative: 5 % of the peak (from memory)
 CLASS_C_LOW_THRESHOLD = 0.05
 
+#: the rules of each class in one sentence, for sheets and pages
+RULES: dict[str, str] = {
+    "A": "Class A: absolute limits in amperes whatever the power (professional stage and studio luminaires "
+    "since edition 5).",
+    "B": "Class B: the Class A limits times 1.5.",
+    "C": "Class C (lighting): above 25 W the table of percentages of the fundamental, the 3rd at 30 % times the "
+    "power factor; from 5 W to 25 W either the Class D per-watt limits or the 3rd at most 86 % and the 5th at "
+    "most 61 % of the fundamental with the current flowing by 60°, its last peak by 65° and not stopping before "
+    "90°; at or below 5 W no limits.",
+    "D": "Class D: milliamperes per watt, capped by the Class A limits, up to 600 W.",
+}
+
 POWER_NO_LIMITS = 5.0  # W: lighting at or below this has no limits (edition 5)
 POWER_CLASS_C_TABLE = 25.0  # W: above this, the table of percentages
 POWER_CLASS_D_MAX = 600.0  # W: Class D covers equipment up to this
@@ -173,20 +185,20 @@ def verdict(
         if cls == "D":
             notes.append("Class D covers equipment up to 600 W; above it Class A applies (from memory).")
         limits = _per_order(lambda n: class_a(n))
-        band = "Class A (absolute limits)"
+        band = "Class A, absolute limits"
     elif cls == "B":
         limits = _per_order(lambda n: class_b(n))
-        band = "Class B (Class A x 1.5)"
+        band = "Class B, Class A × 1.5"
     elif cls == "D":
         limits = _per_order(lambda n: class_d(n, power))
-        band = "Class D (per watt, capped by Class A)"
+        band = "Class D, per watt"
     elif power <= POWER_NO_LIMITS:
         limits = [None for _ in orders]
-        band = "Class C at or below 5 W (no limits)"
+        band = "Class C ≤ 5 W: no limits"
     elif power > POWER_CLASS_C_TABLE:
         pct = _per_order(lambda n: class_c_percent(n, power_factor))
         limits = [None if p is None else p / 100 * i1 for p in pct]
-        band = "Class C above 25 W (percent of the fundamental)"
+        band = "Class C over 25 W (% of I₁)"
     else:
         # 5 W < P <= 25 W: either the Class D per-watt limits, or the 3rd and 5th
         # against the fundamental with the waveform's angles
@@ -210,7 +222,7 @@ def verdict(
         alt_pass = "fail" not in alt_status and shape_ok
         if d_pass or not alt_pass:
             limits = d_limits
-            band = "Class C 5-25 W (Class D per-watt limits)"
+            band = "Class C 5-25 W, per watt"
             if not d_pass and not alt_pass:
                 notes.append(
                     "Neither alternative for 5-25 W lighting is met: "
@@ -222,7 +234,7 @@ def verdict(
                 )
         else:
             limits = alt
-            band = "Class C 5-25 W (3rd and 5th against the fundamental, with the waveform's angles)"
+            band = "Class C 5-25 W, 3rd/5th+angles"
     status, worst = _status(currents, limits)
     passed = "fail" not in status
     return Verdict(cls, band, tuple(limits), status, passed, applies, tuple(notes), worst)

@@ -12,6 +12,7 @@ from typing import Any
 
 from ..fixture.design import Design
 from ..physics import wire as wr
+from ..physics.harmonic_limits import RULES
 from ..quantities.units import format_value as fv
 
 OPERATING_ROWS: tuple[tuple[str, str, str], ...] = (
@@ -679,7 +680,7 @@ def mains_quality_section(d: Design, ans: dict[str, Any]) -> str:
     notes = list(dict.fromkeys(n for c in corners for n in ans[c]["harmonic_notes"]))
     n = ans["nominal"]
     bands = list(dict.fromkeys(ans[c]["harmonic_band"] for c in corners))
-    out.append(f"<p>Judged as: {_e('; '.join(bands))}.</p>")
+    out.append(f"<p>Judged as: {_e('; '.join(bands))}. {_e(RULES[n['harmonic_class']])}</p>")
     out.append(
         f"<p class='lb-small'>Spectrum from the solver's exact waveform on {n['spectrum_samples_per_period']} "
         "points per period; class from the design file's <code>[emissions] class</code> "
