@@ -20,7 +20,6 @@ from lampcalc.fixture.check import check
 from lampcalc.fixture.design import parse_design
 from lampcalc.physics import camera
 from sites import ROOT
-from test_browser import browser, demo  # noqa: F401 - the browser tier's fixtures
 
 DEMO = ROOT / "docs" / "designs"
 
@@ -143,44 +142,3 @@ def test_check_json_camera_section() -> None:
     assert by["1/100 s"]["variation"] < 1e-9 and by["1/100 s"]["ok"]
     assert by["1/4000 s"]["variation"] > by["1/250 s"]["variation"]
     assert c["ieee1789_band"] in ("no observable effect", "low risk", "above low risk")
-
-
-# --- in the page (browser tier: Debian's Chromium against the demo handbook) ------------------
-
-
-@pytest.mark.browser
-@pytest.mark.parametrize(
-    ("path", "box", "calc", "change", "out"),
-    [
-        ("calculators/camera/", "lb-camera-1", "camera", {"frame_rate": "25 fps"}, "variation"),
-        ("calculators/camera/", "lb-camera-1", "camera", {"shutter": "time", "shutter_time": "1 ms"}, "variation"),
-        ("calculators/light/", "lb-light-1", "light", {"distance": "5 m"}, "illuminance_axis"),
-    ],
-    ids=["camera-rate", "camera-time", "light-distance"],
-)
-def test_light_and_camera_compute_in_the_page_on_a_phone(
-    demo: object,  # noqa: F811 - the fixture imported from the browser tier
-    browser: object,  # noqa: F811
-    path: str,
-    box: str,
-    calc: str,
-    change: dict[str, str],
-    out: str,
-) -> None:
-    from test_browser import Visit, block_inputs
-
-    v = Visit(browser, demo[1].url, viewport={"width": 390, "height": 844}, is_mobile=True, has_touch=True)  # type: ignore[index]
-    v.open(path)
-    v.ready()
-    before = v.out(box, out)
-    for k, val in change.items():
-        v.set(box, k, val)
-    expected = compute(calc, block_inputs(v, box))
-    assert expected["ok"], expected
-    assert v.out(box, out) == expected["display"][out] != before
-    assert v.page.evaluate("document.documentElement.scrollWidth - window.innerWidth") <= 0
-    # the shutter field that does not apply is hidden
-    if calc == "camera":
-        hidden = "shutter_angle" if change.get("shutter") == "time" else "shutter_time"
-        assert not v.page.locator(f"#{box} [name={hidden}]").is_visible()
-    assert not v.foreign and not v.errors
