@@ -127,7 +127,7 @@ CASES = [
     ("calculators/ripple/", "lb-ripple-1", "ripple", {"capacitance": "470 uF"}, "ripple_pp"),
     ("calculators/wire/", "lb-wire-1", "wire", {"size": "14 AWG"}, "drop"),
     ("calculators/light/", "lb-light-1", "light", {"distance": "5 m"}, "illuminance_axis"),
-    ("calculators/camera/", "lb-camera-1", "camera", {"shutter": "time", "shutter_time": "1 ms"}, "variation"),
+    ("calculators/camera/", "lb-camera-1", "camera", {"shutter_angle": "90°"}, "variation"),
     ("calculators/harmonics/", "lb-harmonics-1", "harmonics", {"h3": "40 %"}, "verdict"),
     ("calculators/module/", "lb-module-1", "module", {"current": "50 mA"}, "vf"),
     ("calculators/preferred/", "lb-preferred-1", "preferred", {"value": "5000"}, "nearest"),
