@@ -126,6 +126,9 @@ CASES = [
     ("calculators/strings/", "lb-string-2", "string", {"driver_current": "700 mA"}, "parallel"),
     ("calculators/ripple/", "lb-ripple-1", "ripple", {"capacitance": "470 uF"}, "ripple_pp"),
     ("calculators/wire/", "lb-wire-1", "wire", {"size": "14 AWG"}, "drop"),
+    ("calculators/light/", "lb-light-1", "light", {"distance": "5 m"}, "illuminance_axis"),
+    ("calculators/camera/", "lb-camera-1", "camera", {"shutter_angle": "90°"}, "variation"),
+    ("calculators/harmonics/", "lb-harmonics-1", "harmonics", {"h3": "40 %"}, "verdict"),
     ("calculators/module/", "lb-module-1", "module", {"current": "50 mA"}, "vf"),
     ("calculators/preferred/", "lb-preferred-1", "preferred", {"value": "5000"}, "nearest"),
 ]
@@ -215,6 +218,9 @@ def test_share_link_restores_inputs(demo: tuple[Path, Server], browser: object) 
     assert not v.errors
 
 
+NEW_PAGES = ("calculators/light/", "calculators/camera/", "calculators/harmonics/")
+
+
 def test_phone_viewport_has_no_horizontal_scroll(demo: tuple[Path, Server], browser: object) -> None:
     v = Visit(
         browser,
@@ -224,7 +230,7 @@ def test_phone_viewport_has_no_horizontal_scroll(demo: tuple[Path, Server], brow
         is_mobile=True,
         has_touch=True,
     )
-    for path in ("calculators/dropper/", "calculators/strings/", "calculators/wire/"):
+    for path in ("calculators/dropper/", "calculators/strings/", "calculators/wire/", *NEW_PAGES):
         v.open(path)
         v.ready()
         wide = v.page.evaluate("document.documentElement.scrollWidth - window.innerWidth")
