@@ -203,10 +203,7 @@ def render_table(index: int, body: str) -> str:
         raise BlockError(index, next(iter(opts)), "tables take only 'table'")
     t = TABLES[name]()
     head = "".join(f"<th>{_esc(h)}</th>" for h in t.headers)
-    body_html = "".join(
-        "<tr>" + "".join(f'<td data-label="{_esc(h)}">{_esc(c)}</td>' for h, c in zip(t.headers, r)) + "</tr>"
-        for r in t.rows
-    )
+    body_html = "".join("<tr>" + "".join(f"<td>{_esc(c)}</td>" for c in r) + "</tr>" for r in t.rows)
     src = "".join(f"<li>{_esc(x)}</li>" for x in t.sources)
     return (
         f'<div class="lb-reftable" data-table="{_esc(name)}">'

@@ -198,7 +198,7 @@ function render(box, decl, ans) {
   const rowsHost = box.querySelector(".lb-rows");
   const wasOpen = Boolean(rowsHost.querySelector("details[open]"));
   rowsHost.innerHTML = ans.rows.length && cols.length
-    ? `<details class="lb-options"${wasOpen ? " open" : ""}><summary>Every option (${ans.rows.length})</summary><div class="lb-scroll"><table class="lb-table lb-cards"><thead><tr>${cols.map((c) => `<th>${esc(c.label)}</th>`).join("")}</tr></thead><tbody>` +
+    ? `<details class="lb-options"${wasOpen ? " open" : ""}><summary>Every option (${ans.rows.length})</summary><div class="lb-scroll"><table class="lb-table lb-cards" data-labelled="1"><thead><tr>${cols.map((c) => `<th>${esc(c.label)}</th>`).join("")}</tr></thead><tbody>` +
       ans.rows_display.map((r) => `<tr>${cols.map((c) => `<td data-label="${esc(c.label)}"${num(r[c.name])}>${esc(r[c.name])}</td>`).join("")}</tr>`).join("") + "</tbody></table></div></details>"
     : "";
 }
@@ -340,8 +340,23 @@ function initOpen() {
       }
       // the sheet is built by the core, which escapes everything the file says
       out.innerHTML = `<h2>${esc(ans.name)}</h2>` + ans.html;
+      labelTables(out);
+      initSheets();
       box.dataset.computed = String(Number(box.dataset.computed || 0) + 1);
     });
+  }
+}
+
+// narrow screens show long tables as stacked label/value cards: each cell learns its column's label
+function labelTables(scope) {
+  for (const t of scope.querySelectorAll("table.lb-cards:not([data-labelled])")) {
+    const heads = [...t.querySelectorAll("thead th")].map((th) => th.textContent.trim());
+    for (const tr of t.querySelectorAll("tbody tr"))
+      [...tr.children].forEach((td, i) => {
+        td.dataset.label = heads[i] || "";
+        if (td.textContent.length <= 24) td.classList.add("lb-num");
+      });
+    t.dataset.labelled = "1";
   }
 }
 
@@ -369,6 +384,7 @@ window.addEventListener("beforeprint", () => {
 function init() {
   initOpen();
   initSheets();
+  labelTables(document);
   const boxes = document.querySelectorAll(".lb-calc:not([data-live])");
   if (!boxes.length) { setStatus(); if (!worker) startOffline(); return; }
   setStatus();
