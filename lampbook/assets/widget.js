@@ -185,6 +185,7 @@ function render(box, decl, ans) {
     const k = tr.dataset.out;
     tr.hidden = ans.values[k] === null || ans.values[k] === undefined;
     tr.querySelector("td").textContent = shown(box, decl, ans, k);
+    if (tr.classList.contains("lb-text")) keepNumbers(tr);
   }
   for (const item of box.querySelectorAll(".lb-pin-item")) {
     const k = item.dataset.pin;
@@ -201,6 +202,7 @@ function render(box, decl, ans) {
     ? `<details class="lb-options"${wasOpen ? " open" : ""}><summary>Every option (${ans.rows.length})</summary><div class="lb-scroll"><table class="lb-table lb-cards" data-labelled="1"><thead><tr>${cols.map((c) => `<th>${esc(c.label)}</th>`).join("")}</tr></thead><tbody>` +
       ans.rows_display.map((r) => `<tr>${cols.map((c) => `<td data-label="${esc(c.label)}"${num(r[c.name])}>${esc(r[c.name])}</td>`).join("")}</tr>`).join("") + "</tbody></table></div></details>"
     : "";
+  for (const td of rowsHost.querySelectorAll("td")) keepNumbers(td);
 }
 
 // --- plots: sweeps drawn as SVG, axes with units ------------------------------------
@@ -347,14 +349,27 @@ function initOpen() {
   }
 }
 
+// in running text a number keeps its unit on its line (a no-break space joins them)
+const NUMBER_UNIT = /(\d) (?=(?:[pnµumkMG]?(?:VA|V|A|W|Ω|F|Hz|s|J|h)|%|°C|°F|mm²|AWG|kcmil)(?![\w]))/g;
+function keepNumbers(el) {
+  const walker = document.createTreeWalker(el, NodeFilter.SHOW_TEXT);
+  for (let n = walker.nextNode(); n; n = walker.nextNode())
+  {
+    const joined = n.data.replace(NUMBER_UNIT, "$1\u00a0");
+    if (joined !== n.data) n.data = joined;
+  }
+}
+
 // narrow screens show long tables as stacked label/value cards: each cell learns its column's label
 function labelTables(scope) {
+  for (const td of scope.querySelectorAll(".lb-out tr.lb-text td, .lb-table td")) keepNumbers(td);
   for (const t of scope.querySelectorAll("table.lb-cards:not([data-labelled])")) {
     const heads = [...t.querySelectorAll("thead th")].map((th) => th.textContent.trim());
     for (const tr of t.querySelectorAll("tbody tr"))
       [...tr.children].forEach((td, i) => {
         td.dataset.label = heads[i] || "";
         if (td.textContent.length <= 24) td.classList.add("lb-num");
+        else keepNumbers(td);
       });
     t.dataset.labelled = "1";
   }
@@ -401,7 +416,10 @@ function init() {
     };
     box.querySelector(".lb-form").addEventListener("input", later);
     box.querySelector(".lb-form").addEventListener("change", later);
-    box.querySelector(".lb-form").addEventListener("input", () => foldSummary(box));
+    // the mode's fields show at once, engine or not
+    const onEdit = () => { showModes(box, decl); foldSummary(box); };
+    box.querySelector(".lb-form").addEventListener("input", onEdit);
+    box.querySelector(".lb-form").addEventListener("change", onEdit);
     const units = box.querySelector(".lb-units");
     if (units) units.addEventListener("click", () => {
       const imperial = units.dataset.system === "metric";
