@@ -160,6 +160,9 @@ def check_page(v: Visit, path: str, shot: str) -> list[str]:
         primary.type("0")
         v.computed(box, before)
         problems += [f"{path} {box} (after typing): {p}" for p in page.evaluate(PIN_PROBLEMS, box)]
+        before = v.count(box)
+        primary.fill(primary.get_attribute("data-default") or "")
+        v.computed(box, before)
         page.set_viewport_size(PHONE["viewport"])
     page.evaluate("window.scrollTo(0, 0)")
     SHOTS.mkdir(parents=True, exist_ok=True)
@@ -265,7 +268,11 @@ def test_the_checks_find_what_they_look_for(demo_site: tuple[Path, Server], phon
     # something wider than the screen
     page.evaluate("document.querySelector('.md-content h1').style.width = '600px'")
     assert any("page scrolls sideways" in p or "h1" in p for p in page.evaluate(WIDTH_PROBLEMS))
-    # the main answers scrolled away with the pin unpinned
+    # the main answers scrolled away with the pin unpinned (keyboard up: a short window)
+    page.evaluate("document.querySelector('.md-content h1').style.width = ''")
+    page.set_viewport_size({"width": 390, "height": 470})
+    page.evaluate("window.scrollTo(0, document.documentElement.scrollHeight)")
+    assert not page.evaluate(PIN_PROBLEMS, "lb-string-1")  # pinned: still in view at the bottom of the page
     page.evaluate("document.querySelector('#lb-string-1 .lb-pin').style.position = 'static'")
     page.evaluate("window.scrollTo(0, document.documentElement.scrollHeight)")
     assert page.evaluate(PIN_PROBLEMS, "lb-string-1")

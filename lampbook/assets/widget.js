@@ -154,7 +154,7 @@ function shown(box, decl, ans, name) {
 }
 
 // a short value is a number with its unit: it never breaks across lines
-const num = (text) => (String(text).length <= 24 ? ' class="lb-num"' : "");
+const num = (text) => (String(text).length <= 14 ? ' class="lb-num"' : ' class="lb-wide"');
 
 function esc(s) {
   return String(s).replace(/[&<>"']/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c]);
@@ -368,8 +368,8 @@ function labelTables(scope) {
     for (const tr of t.querySelectorAll("tbody tr"))
       [...tr.children].forEach((td, i) => {
         td.dataset.label = heads[i] || "";
-        if (td.textContent.length <= 24) td.classList.add("lb-num");
-        else keepNumbers(td);
+        if (td.textContent.trim().length <= 14) td.classList.add("lb-num");
+        else td.classList.add("lb-wide");
       });
     t.dataset.labelled = "1";
   }
