@@ -9,7 +9,7 @@ from dataclasses import dataclass, field
 
 from lampcalc.api import compute
 from lampcalc.calculators import CALCULATORS
-from lampcalc.schema import describe, region_presets
+from lampcalc.schema import Param, describe, region_presets
 
 FENCE = re.compile(r"^(?P<indent>[ \t]*)```(?P<word>[\w-]+)[ \t]*\n(?P<body>.*?)^(?P=indent)```[ \t]*$", re.S | re.M)
 
@@ -80,7 +80,8 @@ def render(block: Block, safety_url: str | None) -> str:
     bid = f"lb-{block.calculator}-{block.index}"
     mode_value = block.inputs.get(calc.mode, calc.param(calc.mode).default) if calc.mode else None
     all_modes = " ".join(calc.param(calc.mode).choices) if calc.mode else ""
-    rows, folded = [], []
+    rows: list[tuple[Param, str, bool, str]] = []
+    folded: list[tuple[Param, str, bool, str]] = []
     for p in calc.params:
         value = block.inputs.get(p.name, p.default or "")
         attrs = f'name="{_esc(p.name)}" id="{bid}-{_esc(p.name)}" data-default="{_esc(value)}"'

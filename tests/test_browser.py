@@ -413,3 +413,31 @@ def test_offline_status_in_a_plain_http_context(demo: tuple[Path, Server]) -> No
             assert not foreign
         finally:
             b.close()
+
+
+def test_outputs_follow_the_unit_switch(demo: tuple[Path, Server], browser: object) -> None:
+    v = Visit(browser, demo[1].url)
+    v.open("calculators/wire/")
+    v.ready()
+    box = "lb-wire-1"
+    before = v.count(box)
+    v.page.locator(f"#{box} .lb-units").click()
+    v.computed(box, before)
+    inputs = block_inputs(v, box)
+    assert inputs["size"] == "18 AWG", inputs
+    ans = compute("wire", inputs)
+    area, diameter = v.out(box, "area"), v.out(box, "diameter")
+    # NEC Chapter 9 Table 8: 18 AWG solid is 1620 circular mils, 0.040 in across
+    assert area.endswith("kcmil (18 AWG)"), area
+    assert float(area.split()[0]) == pytest.approx(1.62, abs=0.01)
+    assert float(area.split()[0]) * 1000 == pytest.approx(
+        ans["values"]["area"] / (3.141592653589793 / 4 * 0.0254e-3**2), rel=0.005
+    )
+    assert diameter.endswith(" mil"), diameter
+    assert float(diameter.split()[0]) == pytest.approx(40.3, abs=0.1)
+    assert v.page.locator(f"#{box} [data-pin=drop] .lb-pin-value").inner_text() == ans["display"]["drop"]
+    # and back
+    before = v.count(box)
+    v.page.locator(f"#{box} .lb-units").click()
+    v.computed(box, before)
+    assert v.out(box, "area") == compute("wire", block_inputs(v, box))["display"]["area"]
