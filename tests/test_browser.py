@@ -337,6 +337,10 @@ def test_print_stylesheet_gives_a_clean_sheet(demo: tuple[Path, Server], browser
         .map(s => document.querySelector(s)).filter(Boolean).map(e => getComputedStyle(e).display)""")
     assert hidden and all(d == "none" for d in hidden)
     assert v.page.locator(".lb-sheet").is_visible() and v.page.locator(".lb-schematic svg").is_visible()
+    # on paper every check shows why it matters and its source, and the pinned summary does not float
+    why = v.page.locator(".lb-checklist details p")
+    assert why.count() > 10 and all(why.nth(k).is_visible() for k in range(why.count()))
+    assert v.page.locator(".lb-zoom").first.is_hidden()
     ARTIFACTS.mkdir(exist_ok=True)
     pdf = v.page.pdf(path=str(ARTIFACTS / "panel-230-sheet.pdf"))
     assert len(pdf) > 10000

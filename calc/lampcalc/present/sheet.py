@@ -65,7 +65,7 @@ def _e(x: object) -> str:
 
 def _table(headers: list[str], rows: list[list[str]], cls: str = "") -> str:
     head = "".join(f"<th>{_e(h)}</th>" for h in headers)
-    body = "".join("<tr>" + "".join(f"<td>{keep_numbers(c)}</td>" for c in r) + "</tr>" for r in rows)
+    body = "".join("<tr>" + "".join(f"<td>{c}</td>" for c in r) + "</tr>" for r in rows)
     # a table too wide for a phone becomes labelled cards there; a compact one (short numbers) stays a grid
     kind = "lb-table" if "lb-compact" in cls else "lb-table lb-cards"
     return (
