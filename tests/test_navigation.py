@@ -77,6 +77,31 @@ def browser() -> Iterator[object]:
         b.close()
 
 
+MARK = """url => {
+  for (const a of document.querySelectorAll('[data-go]')) a.removeAttribute('data-go');
+  const link = [...document.querySelectorAll('.md-sidebar--primary a.md-nav__link[href]')]
+    .find(a => a.href.split('#')[0] === url);
+  if (link) link.setAttribute('data-go', '1');
+  return Boolean(link);
+}"""
+
+
+def click_nav(v: Visit, url: str) -> float:
+    """Click the navigation entry for url (the theme may still be swapping the sidebar in: try again)."""
+    from playwright.sync_api import TimeoutError as PlaywrightTimeout
+
+    for _ in range(10):
+        if v.page.evaluate(MARK, url):
+            t0 = time.monotonic()
+            try:
+                v.page.locator("[data-go]").first.click(timeout=3000)
+                return t0
+            except PlaywrightTimeout:
+                pass
+        time.sleep(0.3)
+    raise AssertionError(f"no navigation entry for {url}")
+
+
 def test_walk_every_nav_entry_with_one_engine(served: tuple[Path, Server], browser: object) -> None:
     v = Visit(browser, served[1].url, viewport={"width": 1280, "height": 900})
     workers: list[str] = []
@@ -93,15 +118,16 @@ def test_walk_every_nav_entry_with_one_engine(served: tuple[Path, Server], brows
     live: dict[str, float] = {}
     calculators_seen: set[str] = set()
     for url in entries:
-        v.page.evaluate(
-            """url => { for (const a of document.querySelectorAll('[data-go]')) a.removeAttribute('data-go');
-            [...document.querySelectorAll('.md-sidebar--primary a.md-nav__link[href]')]
-              .find(a => a.href.split('#')[0] === url).setAttribute('data-go', '1'); }""",
-            url,
-        )
-        t0 = time.monotonic()
-        v.page.locator("[data-go]").first.click()
+        if v.page.evaluate("location.href.split('#')[0]") == url:
+            continue  # the page we are on
+        # the theme replaces the content container: mark the old one, and wait for a new one, set up
+        v.page.evaluate("document.querySelector('[data-md-component=container]').dataset.old = '1'")
+        t0 = click_nav(v, url)
         v.page.wait_for_function("url => location.href.split('#')[0] === url", arg=url)
+        v.page.wait_for_function(
+            """() => !document.querySelector('[data-md-component=container][data-old]')
+            && [...document.querySelectorAll('.lb-calc')].every(b => b.dataset.live)"""
+        )
         # the theme swapped the content in place: no reload
         assert v.page.evaluate("window.__sameDocument === true"), f"{url}: the page reloaded"
         boxes = v.page.eval_on_selector_all(".lb-calc", "els => els.map(e => e.id)")
