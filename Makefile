@@ -49,10 +49,11 @@ serve: build
 	@echo "plain http from this machine on the shop network computes but is not kept offline."
 	$(BIN)/python -m http.server $(PORT) --bind 127.0.0.1 --directory site
 
-lint: $(DEPS)
+lint: $(DEPS) $(NODE)
 	$(BIN)/ruff check calc lampbook tests bench
 	$(BIN)/ruff format --check calc lampbook tests bench
 	$(BIN)/mypy
+	node_modules/.bin/eslint --max-warnings 0 .
 
 test: $(DEPS) $(NODE) $(SYSTEM) $(WHEELS) lint
 	$(BIN)/python -m pytest
