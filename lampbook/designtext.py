@@ -46,6 +46,9 @@ def check_report(ans: Mapping[str, Any]) -> str:
             [[c["id"], c["status"].upper(), c["message"]] for c in ans["checks"]],
         ),
     ]
-    parts.append(f"\n{ans['failed']} failed, {ans['warned']} warnings. Exit code 1 when any check fails.")
+    parts.append(
+        f"\n{ans['failed']} failed, {ans['warned']} warning{'' if ans['warned'] == 1 else 's'}. "
+        "Exit code 1 when any check fails."
+    )
     parts += ["", bullets("CAUTION (mains):" if not cv else "CAUTION:", ans["cautions"])]
     return "\n".join(parts)
