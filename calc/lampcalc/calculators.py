@@ -177,6 +177,7 @@ QUANTITY = Calculator(
         Output("exact", "Exact", "text"),
     ),
     _quantity,
+    main=("formatted",),
 )
 
 
@@ -274,6 +275,8 @@ MODULE = Calculator(
         Output("current_at_voltage", "Current at the test voltage", "current"),
     ),
     _module,
+    main=("vf", "vf_min", "vf_max"),
+    secondary=("current_max", "vf_tempco", "vf_spread", "i1", "v1", "i2", "v2", "voltage"),
 )
 
 
@@ -576,6 +579,26 @@ STRING = Calculator(
         Output("headroom", "Headroom", "ratio"),
         Output("rating", "Rating", "text"),
     ),
+    main=("series", "parallel", "string_current", "ballast"),
+    secondary=(
+        "v0",
+        "r_dynamic",
+        "current_max",
+        "vf_tempco",
+        "vf_spread",
+        "temperature_cold",
+        "temperature_hot",
+        "supply_tolerance",
+        "e_series",
+        "derating",
+        "series_max",
+        "parallel_max",
+        "mains_voltage",
+        "frequency",
+        "mains_tolerance",
+        "diode_drop",
+        "bus_fraction",
+    ),
 )
 
 
@@ -824,6 +847,17 @@ DROPPER = Calculator(
         Output("led_current_avg", "LED current", "current"),
     ),
     plots=("current_vs_mains",),
+    main=("led_current_avg", "led_current_low", "led_current_high"),
+    secondary=(
+        "mains_voltage",
+        "frequency",
+        "mains_tolerance",
+        "cap_tolerance",
+        "diode_drop",
+        "discharge_time",
+        "discharge_voltage",
+        "bleeder",
+    ),
 )
 
 
@@ -939,6 +973,8 @@ RIPPLE = Calculator(
     _ripple,
     mains=True,
     plots=("ripple_vs_capacitance",),
+    main=("ripple_pp", "percent_flicker", "flicker_band"),
+    secondary=("r_dynamic", "ballast", "bus_voltage", "target_ripple"),
 )
 
 
@@ -1053,6 +1089,8 @@ WIRE = Calculator(
         Output("smallest_size", "Smallest size for the current and limit", "text"),
     ),
     _wire,
+    main=("drop", "drop_fraction", "ampacity"),
+    secondary=("temperature", "drop_limit", "ampacity_table"),
 )
 
 
@@ -1110,6 +1148,7 @@ PREFERRED = Calculator(
         Output("error", "Nearest is off by", "ratio"),
     ),
     _preferred,
+    main=("nearest", "up", "down"),
 )
 
 
@@ -1169,6 +1208,8 @@ MAINS = Calculator(
         Output("peak_high", "Peak, high", "voltage"),
         Output("source", "Source", "text"),
     ),
+    main=("voltage", "low", "high"),
+    secondary=("mains_voltage", "frequency", "mains_tolerance"),
 )
 
 

@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import html
 import math
+import re
 from typing import Any
 
 from ..fixture.design import Design
@@ -66,8 +67,10 @@ def _e(x: object) -> str:
 def _table(headers: list[str], rows: list[list[str]], cls: str = "") -> str:
     head = "".join(f"<th>{_e(h)}</th>" for h in headers)
     body = "".join("<tr>" + "".join(f"<td>{c}</td>" for c in r) + "</tr>" for r in rows)
+    # a table too wide for a phone becomes labelled cards there; a compact one (short numbers) stays a grid
+    kind = "lb-table" if "lb-compact" in cls else "lb-table lb-cards"
     return (
-        f'<div class="lb-scroll"><table class="lb-table {cls}"><thead><tr>{head}</tr></thead>'
+        f'<div class="lb-scroll"><table class="{kind} {cls}"><thead><tr>{head}</tr></thead>'
         f"<tbody>{body}</tbody></table></div>"
     )
 
@@ -394,45 +397,89 @@ def schematic(d: Design) -> str:
     )
 
 
+def nice_ticks(lo: float, hi: float, n: int = 4) -> list[float]:
+    """Round steps (1, 2, 2.5, 5 x 10^k) covering lo..hi."""
+    if not hi > lo:
+        hi = lo + (abs(lo) or 1.0)
+    raw = (hi - lo) / n
+    mag = 10 ** math.floor(math.log10(raw))
+    step = next(k * mag for k in (1, 2, 2.5, 5, 10) if k * mag >= raw * 0.999)
+    first = math.floor(lo / step + 1e-9) * step
+    out, k = [], 0
+    while True:
+        v = round(first + k * step, 12)
+        out.append(v)
+        if v >= hi - 1e-12 * abs(hi):
+            return out
+        k += 1
+
+
+def _axes(x0: float, x1: float, y0: float, y1: float, box: tuple[float, float, float, float]) -> tuple[Any, Any]:
+    left, top, width, height = box
+
+    def fx(x: float) -> float:
+        return left + width * (x - x0) / (x1 - x0)
+
+    def fy(y: float) -> float:
+        return top + height * (1 - (y - y0) / (y1 - y0))
+
+    return fx, fy
+
+
 def waveform(w: dict[str, list[float]]) -> str:
-    """LED current and bus voltage over one mains period, two stacked plots with axes and units."""
+    """LED current and bus voltage over one mains period: two stacked plots with axis titles, units, a
+    grid of round ticks; the current axis starts at zero, the voltage axis says where it starts."""
     t = w["t"]
     if not t:
         return ""
     T = t[-1] + (t[1] - t[0])
-    W, Hp, L, R = 360, 110, 52, 10
+    W, Hp, L, R, gap = 360, 120, 60, 12, 58
     out = []
-    for k, (key, unit, dim, colour) in enumerate(
+    xt = [T * k / 4 for k in range(5)]
+    for k, (key, title, dim, colour, from_zero) in enumerate(
         (
-            ("led_current_A", "LED current", "current", "#c8780a"),
-            ("bus_V", "bus voltage", "voltage", "#26323a"),
+            ("led_current_A", "LED current", "current", "#c8780a", True),
+            ("bus_V", "Bus voltage", "voltage", "#26323a", False),
         )
     ):
         ys = w[key]
         lo, hi = min(ys), max(ys)
-        pad = (hi - lo) * 0.1 or abs(hi) * 0.05 or 1.0
-        y0, y1 = lo - pad, hi + pad
-        top = 10 + k * (Hp + 24)
-        pts = " ".join(
-            f"{L + (W - L - R) * ti / T:.1f},{top + Hp * (1 - (y - y0) / (y1 - y0)):.1f}" for ti, y in zip(t, ys)
-        )
+        if from_zero or lo <= 0:
+            yt = nice_ticks(0.0, hi * 1.05 if hi > 0 else 1.0)
+        else:
+            pad = (hi - lo) * 0.15 or abs(hi) * 0.05 or 1.0
+            yt = nice_ticks(lo - pad, hi + pad)
+        y0, y1 = yt[0], yt[-1]
+        top = 24 + k * (Hp + gap)
+        fx, fy = _axes(0.0, T, y0, y1, (L, top, W - L - R, Hp))
+        note = "" if y0 == 0 else f"; axis starts at {fv(y0, dim)}, not zero"
+        unit = {"current": "A", "voltage": "V"}[dim]
+        pts = " ".join(f"{fx(ti):.1f},{fy(y):.1f}" for ti, y in zip(t, ys))
+        out.append(f'<text x="{L}" y="{top - 8}" class="ti">{_e(title)} ({unit}){_e(note)}</text>')
+        for y in yt:
+            out.append(
+                f'<line x1="{L}" y1="{fy(y):.1f}" x2="{W - R}" y2="{fy(y):.1f}" class="gr"/>'
+                f'<text x="{L - 4}" y="{fy(y) + 3:.1f}" class="tk" text-anchor="end">{_e(fv(y, dim, 3))}</text>'
+            )
+        for x in xt:
+            out.append(
+                f'<line x1="{fx(x):.1f}" y1="{top + Hp}" x2="{fx(x):.1f}" y2="{top + Hp + 4}" class="ax"/>'
+                f'<text x="{fx(x):.1f}" y="{top + Hp + 15}" class="tk" '
+                f'text-anchor="{"end" if x == xt[-1] else "middle"}">'
+                f"{_e(fv(x, 'time', 3) if x else '0')}</text>"
+            )
         out.append(
-            f'<text x="{L - 4}" y="{top + 8}" class="tk" text-anchor="end">{_e(fv(y1, dim))}</text>'
-            f'<text x="{L - 4}" y="{top + Hp}" class="tk" text-anchor="end">{_e(fv(y0, dim))}</text>'
             f'<line x1="{L}" y1="{top + Hp}" x2="{W - R}" y2="{top + Hp}" class="ax"/>'
             f'<line x1="{L}" y1="{top}" x2="{L}" y2="{top + Hp}" class="ax"/>'
             f'<polyline points="{pts}" fill="none" stroke="{colour}" stroke-width="1.8"/>'
-            f'<text x="{W - R}" y="{top + 10}" class="tk" text-anchor="end">{_e(unit)}</text>'
         )
-    Ht = 2 * (Hp + 24) + 6
-    out.append(
-        f'<text x="{L}" y="{Ht}" class="tk">0</text>'
-        f'<text x="{W - R}" y="{Ht}" class="tk" text-anchor="end">{_e(fv(T, "time"))}</text>'
-    )
+    Ht = 24 + 2 * (Hp + gap) - 12
+    out.append(f'<text x="{(L + W - R) / 2}" y="{Ht}" class="ti" text-anchor="middle">Time (s)</text>')
     return (
-        f'<figure class="lb-fig"><svg viewBox="0 0 {W} {Ht + 4}" role="img" '
+        f'<figure class="lb-fig"><svg viewBox="0 0 {W} {Ht + 6}" role="img" '
         'aria-label="LED current and bus voltage over one period">'
-        "<style>.ax{stroke:currentColor}.tk{font:10px sans-serif;fill:currentColor}</style>"
+        "<style>.ax{stroke:currentColor}.gr{stroke:currentColor;stroke-opacity:.15}"
+        ".tk{font:10px sans-serif;fill:currentColor}.ti{font:600 11px sans-serif;fill:currentColor}</style>"
         + "".join(out)
         + "</svg><figcaption>One mains period at nominal mains, from the steady-state solve.</figcaption></figure>"
     )
@@ -441,24 +488,89 @@ def waveform(w: dict[str, list[float]]) -> str:
 def histogram(study: dict[str, Any]) -> str:
     h = study["histogram"]
     counts = h["counts"]
-    W, Hh, L, B = 360, 160, 40, 28
-    top = max(counts) or 1
-    bw = (W - L - 10) / len(counts)
-    bars = "".join(
-        f'<rect x="{L + k * bw:.1f}" y="{Hh - B - (Hh - B - 10) * c / top:.1f}" '
-        f'width="{bw - 1:.1f}" height="{(Hh - B - 10) * c / top:.1f}" class="bar"/>'
-        for k, c in enumerate(counts)
-    )
+    W, Hh, L, B, R, T = 360, 200, 48, 46, 12, 12
     lo, hi = h["low_A"], h["low_A"] + h["bin_A"] * len(counts)
+    yt = nice_ticks(0.0, float(max(counts) or 1), 4)
+    fx, fy = _axes(lo, hi, 0.0, yt[-1], (L, T, W - L - R, Hh - B - T))
+    bw = (W - L - R) / len(counts)
+    parts = [
+        f'<line x1="{L}" y1="{fy(y):.1f}" x2="{W - R}" y2="{fy(y):.1f}" class="gr"/>'
+        f'<text x="{L - 4}" y="{fy(y) + 3:.1f}" class="tk" text-anchor="end">{y:g}</text>'
+        for y in yt
+    ]
+    parts += [
+        f'<rect x="{L + k * bw:.1f}" y="{fy(c):.1f}" width="{max(bw - 1, 0.5):.1f}" height="{fy(0) - fy(c):.1f}" '
+        'class="bar"/>'
+        for k, c in enumerate(counts)
+    ]
+    xt = [x for x in nice_ticks(lo, hi, 4) if lo - 1e-12 <= x <= hi + 1e-12]
+    parts += [
+        f'<line x1="{fx(x):.1f}" y1="{Hh - B}" x2="{fx(x):.1f}" y2="{Hh - B + 4}" class="ax"/>'
+        f'<text x="{fx(x):.1f}" y="{Hh - B + 15}" class="tk" text-anchor="middle">{_e(fv(x, "current", 3))}</text>'
+        for x in xt
+    ]
     return (
         f'<figure class="lb-fig"><svg viewBox="0 0 {W} {Hh}" role="img" aria-label="Histogram of LED current">'
-        "<style>.bar{fill:#c8780a}.ax{stroke:currentColor}.tk{font:10px sans-serif;fill:currentColor}</style>"
-        f'<line x1="{L}" y1="{Hh - B}" x2="{W - 10}" y2="{Hh - B}" class="ax"/>{bars}'
-        f'<text x="{L}" y="{Hh - 10}" class="tk">{_e(fv(lo, "current"))}</text>'
-        f'<text x="{W - 10}" y="{Hh - 10}" class="tk" text-anchor="end">{_e(fv(hi, "current"))}</text>'
-        f'<text x="{L - 4}" y="18" class="tk" text-anchor="end">{top}</text></svg>'
+        "<style>.bar{fill:#c8780a}.ax{stroke:currentColor}.gr{stroke:currentColor;stroke-opacity:.15}"
+        ".tk{font:10px sans-serif;fill:currentColor}.ti{font:600 11px sans-serif;fill:currentColor}</style>"
+        + "".join(parts)
+        + f'<line x1="{L}" y1="{Hh - B}" x2="{W - R}" y2="{Hh - B}" class="ax"/>'
+        f'<line x1="{L}" y1="{T}" x2="{L}" y2="{Hh - B}" class="ax"/>'
+        f'<text x="{(L + W - R) / 2}" y="{Hh - 8}" class="ti" text-anchor="middle">LED current (A); '
+        "the axis spans the builds' range</text>"
+        f'<text transform="translate(12 {(T + Hh - B) / 2}) rotate(-90)" class="ti" text-anchor="middle">Builds</text>'
+        "</svg>"
         f"<figcaption>LED current over {study['samples']} random builds (seed {study['seed']}).</figcaption></figure>"
     )
+
+
+# --- checks as a list: status and id on one line, the finding, why and source on demand -----------
+
+_UNVERIFIED = re.compile(r"\s*\(([^()]*\bfrom memory\b[^()]*)\)|[,;]?\s*\bfrom memory\b", re.I)
+
+
+def citation(source: str) -> tuple[str, bool]:
+    """A source as a reader's citation, and whether its limit is still unverified against the published text
+    (marked once on the sheet, not repeated in every line)."""
+    unverified = bool(_UNVERIFIED.search(source))
+
+    def keep(m: re.Match[str]) -> str:
+        parts = re.split(r"[;:]", m.group(1) or "")
+        rest = [x.strip() for x in parts if x.strip() and "memory" not in x and "check against" not in x]
+        return f" ({'; '.join(rest)})" if rest else ""
+
+    return _UNVERIFIED.sub(keep, source).strip(" ,;"), unverified
+
+
+_NUMBER_UNIT = re.compile(r"(\d) (?=(?:[pnµumkMG]?(?:VA|V|A|W|Ω|F|Hz|s|J|h)|%|°C|°F|mm²|AWG)(?![\w]))")
+
+
+def keep_numbers(text: str) -> str:
+    """A number and its unit are joined by a no-break space, so a narrow line never splits them."""
+    return _NUMBER_UNIT.sub("\\1\u00a0", text)
+
+
+UNVERIFIED_NOTE = (
+    "† The limit in this check was recalled, not yet read against the published standard: "
+    "check it there before relying on it; local codes and licensed practice decide."
+)
+
+
+def checks_list(checks: list[dict[str, Any]]) -> str:
+    items, any_unverified = [], False
+    for c in checks:
+        src, unverified = citation(str(c["source"]))
+        any_unverified |= unverified
+        items.append(
+            f'<li class="lb-check lb-{_e(c["status"])}"><div class="lb-check-head">'
+            f'<span class="lb-st lb-{_e(c["status"])}">{_e(c["status"].upper())}</span> '
+            f"<code>{_e(c['id'])}</code></div>"
+            f'<p class="lb-check-finding">{_e(keep_numbers(str(c["message"])))}</p>'
+            f"<details><summary>Why and source</summary><p>{_e(keep_numbers(str(c['why'])))}</p>"
+            f'<p class="lb-cite">Source: {_e(src)}{"†" if unverified else ""}</p></details></li>'
+        )
+    note = f'<p class="lb-unverified">{_e(UNVERIFIED_NOTE)}</p>' if any_unverified else ""
+    return '<ul class="lb-checklist">' + "".join(items) + "</ul>" + note
 
 
 def render(d: Design, ans: dict[str, Any], study: dict[str, Any] | None) -> str:
@@ -493,6 +605,7 @@ def render(d: Design, ans: dict[str, Any], study: dict[str, Any] | None) -> str:
                 [_e(lab)] + [_e(cell(ans[c].get(key), kd)) for c in ("low", "nominal", "high")]
                 for lab, key, kd in rows_def
             ],
+            "lb-compact",
         )
     )
     if ans.get("steps"):
@@ -504,6 +617,7 @@ def render(d: Design, ans: dict[str, Any], study: dict[str, Any] | None) -> str:
                     [fv(st["capacitance_F"], "capacitance"), fv(st["led_current_avg_A"], "current")]
                     for st in ans["steps"]
                 ],
+                "lb-compact",
             )
         )
     if ans.get("waveform"):
@@ -521,22 +635,7 @@ def render(d: Design, ans: dict[str, Any], study: dict[str, Any] | None) -> str:
     out.append(light_section(d, ans))
     out.append(camera_section(d, ans))
     out.append("<h2>Checks</h2>")
-    out.append(
-        _table(
-            ["check", "result", "finding", "why", "source"],
-            [
-                [
-                    f"<code>{_e(c['id'])}</code>",
-                    f'<span class="lb-st lb-{_e(c["status"])}">{_e(c["status"].upper())}</span>',
-                    _e(c["message"]),
-                    _e(c["why"]),
-                    _e(c["source"]),
-                ]
-                for c in ans["checks"]
-            ],
-            "lb-checks",
-        )
-    )
+    out.append(checks_list(ans["checks"]))
     out.append("<h2>Bill of materials</h2>")
     out.append(_table(["part", "value", "declared", "required"], bom(d, ans)))
     wires = wiring(d, ans)
@@ -567,6 +666,7 @@ def render(d: Design, ans: dict[str, Any], study: dict[str, Any] | None) -> str:
                     ],
                     [_e(stx["name"]), f"{stx['p1']:.0%}", f"{stx['p50']:.0%}", f"{stx['p99']:.0%}"],
                 ],
+                "lb-compact",
             )
         )
         out.append(histogram(study))
