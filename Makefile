@@ -41,10 +41,12 @@ $(WHEELS): tests/pyodide/requirements.txt | $(DEPS)
 system: $(SYSTEM)
 
 build: $(DEPS) $(NODE)
-	$(BIN)/mkdocs build --strict
+	LAMPBOOK_SITE_URL=$${LAMPBOOK_SITE_URL:-http://127.0.0.1:$(PORT)/} $(BIN)/mkdocs build --strict
 
 serve: build
 	@echo "Serving the handbook on http://127.0.0.1:$(PORT)/"
+	@echo "Offline use on a phone needs HTTPS (any HTTPS static host) or localhost on the device itself;"
+	@echo "plain http from this machine on the shop network computes but is not kept offline."
 	$(BIN)/python -m http.server $(PORT) --bind 127.0.0.1 --directory site
 
 lint: $(DEPS) $(NODE)

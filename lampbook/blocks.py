@@ -9,7 +9,7 @@ from dataclasses import dataclass, field
 
 from lampcalc.api import compute
 from lampcalc.calculators import CALCULATORS
-from lampcalc.schema import describe, region_presets
+from lampcalc.schema import Param, describe, region_presets
 
 from .workbench import WorkbenchError, render_workbench
 
@@ -108,7 +108,9 @@ def render(block: Block, safety_url: str | None) -> str:
     ans = compute(calc.name, block.inputs)
     bid = f"lb-{block.calculator}-{block.index}"
     mode_value = block.inputs.get(calc.mode, calc.param(calc.mode).default) if calc.mode else None
-    rows = []
+    all_modes = " ".join(calc.param(calc.mode).choices) if calc.mode else ""
+    rows: list[tuple[Param, str, bool, str]] = []
+    folded: list[tuple[Param, str, bool, str]] = []
     for p in calc.params:
         value = block.inputs.get(p.name, p.default or "")
         attrs = f'name="{_esc(p.name)}" id="{bid}-{_esc(p.name)}" data-default="{_esc(value)}"'
@@ -139,19 +141,39 @@ def render(block: Block, safety_url: str | None) -> str:
                 '<input type="text" inputmode="text" autocomplete="off" spellcheck="false" '
                 f'{attrs} value="{_esc(value)}" placeholder="{ph}">'
             )
-        modes = f' data-modes="{_esc(" ".join(p.modes))}"' if p.modes else ""
-        rows.append(
+        # every field of a calculator with modes carries the modes it serves
+        serves = " ".join(p.modes) if p.modes else all_modes
+        modes = f' data-modes="{_esc(serves)}"' if serves else ""
+        html_field = (
             f'<div class="lb-field"{modes}{" hidden" if hidden else ""}>'
             f'<label for="{bid}-{_esc(p.name)}">{_esc(p.label)}</label>'
             f'{ctl}<small class="lb-help">{_esc(p.help)}</small><small class="lb-err" role="alert"></small></div>'
         )
+        (folded if p.name in calc.secondary else rows).append((p, value, hidden, html_field))
+    form_html = "".join(h for *_, h in rows)
+    if folded:
+        shown = [f"{p.label} {v or 'blank'}" for p, v, hid, _ in folded if not hid]
+        form_html += (
+            '<details class="lb-more"><summary><span class="lb-more-title">More inputs</span> '
+            f'<span class="lb-more-values">{_esc(" · ".join(shown))}</span></summary>'
+            f'<div class="lb-more-body">{"".join(h for *_, h in folded)}</div></details>'
+        )
+    main = [o for o in calc.outputs if o.name in calc.main]
+    pin = "".join(
+        f'<div class="lb-pin-item" data-pin="{_esc(o.name)}"{" hidden" if ans["values"].get(o.name) is None else ""}>'
+        f'<span class="lb-pin-label">{_esc(o.label)}</span>'
+        f'<span class="lb-pin-value">{_esc(ans["display"][o.name])}</span></div>'
+        for o in main
+    )
     outs = []
     for o in calc.outputs:
         v = ans["values"].get(o.name)
         shown = ans["display"][o.name]
         outs.append(
-            f'<tr data-out="{_esc(o.name)}"{" hidden" if v is None else ""}>'
-            f"<th>{_esc(o.label)}</th><td>{_esc(shown)}</td></tr>"
+            f'<tr data-out="{_esc(o.name)}"{" hidden" if v is None else ""}'
+            # words wrap; a number with its unit never does
+            + (' class="lb-text">' if o.dim == "text" else ">")
+            + f"<th>{_esc(o.label)}</th><td>{_esc(shown)}</td></tr>"
         )
     has_imperial = any(p.imperial for p in calc.params)
     caution = ""
@@ -174,7 +196,8 @@ def render(block: Block, safety_url: str | None) -> str:
         f'<div class="lb-head"><h3 class="lb-title">{_esc(title)}</h3>'
         '<span class="lb-engine" aria-live="polite">answers computed at build time</span></div>\n'
         f'<p class="lb-summary">{_esc(calc.summary)}</p>\n'
-        f'<form class="lb-form" autocomplete="off" onsubmit="return false">{"".join(rows)}'
+        + (f'<div class="lb-pin" aria-live="polite">{pin}</div>\n' if pin else "")
+        + f'<form class="lb-form" autocomplete="off" onsubmit="return false">{form_html}'
         + (
             '<div class="lb-tools"><button type="button" class="lb-units" data-system="metric">'
             "Imperial units</button></div>"
@@ -189,7 +212,8 @@ def render(block: Block, safety_url: str | None) -> str:
         f"<ul>{''.join(f'<li>{_esc(n)}</li>' for n in ans['notes'])}</ul></details>"
         f'<p class="lb-share"><a class="lb-link" href="?lb={bid}#{bid}">Link to these inputs</a></p></div>\n'
         f"{caution}\n"
-        f'<script type="application/json" class="lb-data">{payload}</script>\n'
+        # inside a template: the theme's page changes re-create every script in the content as plain JavaScript
+        f'<template class="lb-tpl"><script type="application/json" class="lb-data">{payload}</script></template>\n'
         "</div>\n"
     )
 
@@ -214,7 +238,7 @@ def render_table(index: int, body: str) -> str:
     return (
         f'<div class="lb-reftable" data-table="{_esc(name)}">'
         f'<p class="lb-tabletitle"><strong>{_esc(t.title)}</strong></p>'
-        f'<div class="lb-scroll"><table class="lb-table"><thead><tr>{head}</tr></thead>'
+        f'<div class="lb-scroll"><table class="lb-table lb-cards"><thead><tr>{head}</tr></thead>'
         f"<tbody>{body_html}</tbody></table></div>"
         f'<ul class="lb-sources">{src}</ul></div>'
     )

@@ -12,6 +12,11 @@ from pathlib import Path
 from .bundle import PYODIDE_VERSION
 
 MKDOCS = """site_name: {yaml_name}
+# The address the handbook is published at. Pages change in place (the calculators' engine keeps
+# running) only for links under it. Offline use on a phone needs HTTPS (any HTTPS static host) or
+# localhost on the device itself; plain http from a laptop on the shop network computes but is not
+# kept offline.
+site_url: !ENV [LAMPBOOK_SITE_URL, "http://127.0.0.1:8000/"]
 theme:
   name: material
   font: false

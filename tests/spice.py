@@ -49,6 +49,8 @@ class SpiceResult:
     seconds: float
     periods: int
     attempts: int = 1
+    #: the last whole period of the line current on 20 000 equally spaced points from a rising zero of the mains
+    line_current_period: np.ndarray | None = None
 
 
 def netlist(c: Circuit, periods: int, points_per_period: int = 4000) -> str:
@@ -173,4 +175,5 @@ def run(c: Circuit, periods: int = 60, points_per_period: int = 4000) -> SpiceRe
         seconds=seconds,
         periods=periods,
         attempts=n_try,
+        line_current_period=iline[len(grid) // 2 :],
     )

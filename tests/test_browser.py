@@ -59,7 +59,7 @@ def browser() -> Iterator[object]:
 
 class Visit:
     def __init__(self, browser: object, base: str, **ctx: object) -> None:
-        self.ctx = browser.new_context(service_workers="allow", **ctx)  # type: ignore[attr-defined]
+        self.ctx = browser.new_context(**{"service_workers": "allow", **ctx})  # type: ignore[attr-defined]
         self.foreign: list[str] = []
         self.ctx.route(re.compile(r"^(?!http://127\.0\.0\.1:).*"), self._refuse)
         self.page = self.ctx.new_page()
@@ -112,6 +112,8 @@ class Visit:
     def set(self, box: str, name: str, value: str) -> None:
         before = self.count(box)
         el = self.page.locator(f"#{box} [name={name}]")
+        # a folded input is opened first, as a user would
+        el.evaluate("e => { const d = e.closest('details.lb-more'); if (d) d.open = true; }")
         if el.evaluate("e => e.tagName") == "SELECT":
             el.select_option(value)
         else:
@@ -123,16 +125,19 @@ CASES = [
     ("calculators/dropper/", "lb-dropper-1", "dropper", {"capacitance": "2.2 uF"}, "led_current_avg"),
     ("calculators/dropper/", "lb-dropper-2", "dropper", {"stock_capacitance": "0.47 uF"}, "bank_count"),
     ("calculators/strings/", "lb-string-1", "string", {"supply_voltage": "36 V"}, "series"),
-    ("calculators/strings/", "lb-string-2", "string", {"driver_current": "700 mA"}, "parallel"),
+    ("calculators/strings/", "lb-string-1", "string", {"supply": "cc", "driver_current": "700 mA"}, "parallel"),
     ("calculators/ripple/", "lb-ripple-1", "ripple", {"capacitance": "470 uF"}, "ripple_pp"),
     ("calculators/wire/", "lb-wire-1", "wire", {"size": "14 AWG"}, "drop"),
+    ("calculators/light/", "lb-light-1", "light", {"distance": "5 m"}, "illuminance_axis"),
+    ("calculators/camera/", "lb-camera-1", "camera", {"shutter_angle": "90°"}, "variation"),
+    ("calculators/harmonics/", "lb-harmonics-1", "harmonics", {"h3": "40 %"}, "verdict"),
     ("calculators/module/", "lb-module-1", "module", {"current": "50 mA"}, "vf"),
     ("calculators/preferred/", "lb-preferred-1", "preferred", {"value": "5000"}, "nearest"),
 ]
 
 
 def block_inputs(v: Visit, box: str) -> dict[str, str]:
-    data = json.loads(v.page.locator(f"#{box} .lb-data").inner_text())
+    data = json.loads(v.page.evaluate(f"document.querySelector('#{box} template.lb-tpl').content.textContent"))
     return (
         {
             k: val
@@ -146,7 +151,7 @@ def block_inputs(v: Visit, box: str) -> dict[str, str]:
     )
 
 
-@pytest.mark.parametrize(("path", "box", "calc", "change", "out"), CASES, ids=[c[1] for c in CASES])
+@pytest.mark.parametrize(("path", "box", "calc", "change", "out"), CASES, ids=[f"{c[1]}-{c[4]}" for c in CASES])
 def test_calculator_computes_after_input_change(
     demo: tuple[Path, Server],
     browser: object,
@@ -215,27 +220,6 @@ def test_share_link_restores_inputs(demo: tuple[Path, Server], browser: object) 
     assert not v.errors
 
 
-def test_phone_viewport_has_no_horizontal_scroll(demo: tuple[Path, Server], browser: object) -> None:
-    v = Visit(
-        browser,
-        demo[1].url,
-        viewport={"width": 390, "height": 844},
-        device_scale_factor=2,
-        is_mobile=True,
-        has_touch=True,
-    )
-    for path in ("calculators/dropper/", "calculators/strings/", "calculators/wire/"):
-        v.open(path)
-        v.ready()
-        wide = v.page.evaluate("document.documentElement.scrollWidth - window.innerWidth")
-        assert wide <= 0, (path, wide)
-        assert v.page.locator(".lb-form").first.is_visible() and v.page.locator(".lb-out").first.is_visible()
-    ARTIFACTS.mkdir(exist_ok=True)
-    v.open("calculators/dropper/")
-    v.ready()
-    v.page.screenshot(path=str(ARTIFACTS / "phone-dropper.png"), full_page=True)
-
-
 def test_rebuilt_site_replaces_the_cache(tmp_path: Path, browser: object) -> None:
     folder = tmp_path / "s"
     from sites import write_site
@@ -271,7 +255,7 @@ def test_open_design_from_device(demo: tuple[Path, Server], browser: object) -> 
     from lampcalc.present.sheet import cell
 
     ans = check(parse_design((ROOT / "docs" / "designs" / "worklight-120.toml").read_text()))
-    text = v.page.locator(".lb-open-out").inner_text()
+    text = v.page.locator(".lb-open-out").inner_text().replace("\xa0", " ")  # numbers keep their units
     assert cell(ans["nominal"]["led_current_avg_A"], "current") in text
     assert "no check failed" in text
     # a bad file: the error names the key, nothing else breaks
@@ -356,6 +340,10 @@ def test_print_stylesheet_gives_a_clean_sheet(demo: tuple[Path, Server], browser
         .map(s => document.querySelector(s)).filter(Boolean).map(e => getComputedStyle(e).display)""")
     assert hidden and all(d == "none" for d in hidden)
     assert v.page.locator(".lb-sheet").is_visible() and v.page.locator(".lb-schematic svg").is_visible()
+    # on paper every check shows why it matters and its source, and the pinned summary does not float
+    why = v.page.locator(".lb-checklist details p")
+    assert why.count() > 10 and all(why.nth(k).is_visible() for k in range(why.count()))
+    assert v.page.locator(".lb-zoom").first.is_hidden()
     ARTIFACTS.mkdir(exist_ok=True)
     pdf = v.page.pdf(path=str(ARTIFACTS / "panel-230-sheet.pdf"))
     assert len(pdf) > 10000
@@ -382,3 +370,81 @@ def test_engine_timeout_is_shown(tmp_path: Path, browser: object) -> None:
         assert v.out("lb-preferred-1", "nearest") == compute("preferred", {})["display"]["nearest"]
     finally:
         srv.close()
+
+
+# --- offline status: "offline-ready" is a claim, made only when it is true ---------------------------------
+
+
+def test_offline_status_in_a_secure_context(demo: tuple[Path, Server], browser: object) -> None:
+    v = Visit(browser, demo[1].url)
+    v.open("calculators/ripple/")
+    v.ready()
+    status = v.page.locator(".lb-engine").first
+    # 127.0.0.1 is a secure context: the service worker installs, takes control, and only then is it claimed
+    v.page.wait_for_selector(".lb-engine[data-state~=offline]", timeout=120000)
+    assert v.page.evaluate("navigator.serviceWorker.controller !== null")
+    assert status.inner_text() == "live · offline-ready"
+    # the claim holds: cut the network and the next page, never opened, computes
+    v.ctx.set_offline(True)
+    v.open("calculators/module/")
+    v.ready()
+    v.set("lb-module-1", "current", "30 mA")
+    assert v.out("lb-module-1", "vf") == compute("module", block_inputs(v, "lb-module-1"))["display"]["vf"]
+    assert not v.foreign
+
+
+def test_offline_status_in_a_plain_http_context(demo: tuple[Path, Server]) -> None:
+    """A bench laptop serving plain http on the shop network: the phone has no secure context, so no service
+    worker; the page must say offline is not available and why, never "offline-ready"."""
+    from playwright.sync_api import sync_playwright
+
+    host = "bench-laptop.test"  # resolved to 127.0.0.1 by the browser only: not a secure origin
+    url = demo[1].url.replace("127.0.0.1", host)
+    with sync_playwright() as p:
+        b = p.chromium.launch(executable_path=CHROMIUM, args=[*ARGS, f"--host-resolver-rules=MAP {host} 127.0.0.1"])
+        try:
+            ctx = b.new_context(service_workers="allow", viewport={"width": 390, "height": 844}, is_mobile=True)
+            foreign: list[str] = []
+            pattern = re.compile(rf"^(?!http://{re.escape(host)}:).*")
+            ctx.route(pattern, lambda route: (foreign.append(route.request.url), route.abort()))
+            page = ctx.new_page()
+            page.goto(url + "calculators/ripple/")
+            page.wait_for_selector(".lb-engine[data-state^=ready]", timeout=90000)
+            assert page.evaluate("window.isSecureContext") is False
+            text = page.locator(".lb-engine").first.inner_text()
+            assert "offline-ready" not in text
+            assert "offline not available" in text and "HTTPS" in text and "localhost" in text
+            assert "no-offline" in (page.locator(".lb-engine").first.get_attribute("data-state") or "")
+            ARTIFACTS.mkdir(exist_ok=True)
+            page.screenshot(path=str(ARTIFACTS / "phone-status-plain-http.png"))
+            assert not foreign
+        finally:
+            b.close()
+
+
+def test_outputs_follow_the_unit_switch(demo: tuple[Path, Server], browser: object) -> None:
+    v = Visit(browser, demo[1].url)
+    v.open("calculators/wire/")
+    v.ready()
+    box = "lb-wire-1"
+    before = v.count(box)
+    v.page.locator(f"#{box} .lb-units").click()
+    v.computed(box, before)
+    inputs = block_inputs(v, box)
+    assert inputs["size"] == "18 AWG", inputs
+    ans = compute("wire", inputs)
+    area, diameter = v.out(box, "area"), v.out(box, "diameter")
+    # NEC Chapter 9 Table 8: 18 AWG solid is 1620 circular mils, 0.040 in across
+    assert area.endswith("kcmil (18 AWG)"), area
+    assert float(area.split()[0]) == pytest.approx(1.62, abs=0.01)
+    assert float(area.split()[0]) * 1000 == pytest.approx(
+        ans["values"]["area"] / (3.141592653589793 / 4 * 0.0254e-3**2), rel=0.005
+    )
+    assert diameter.endswith(" mil"), diameter
+    assert float(diameter.split()[0]) == pytest.approx(40.3, abs=0.1)
+    assert v.page.locator(f"#{box} [data-pin=drop] .lb-pin-value").inner_text() == ans["display"]["drop"]
+    # and back
+    before = v.count(box)
+    v.page.locator(f"#{box} .lb-units").click()
+    v.computed(box, before)
+    assert v.out(box, "area") == compute("wire", block_inputs(v, box))["display"]["area"]

@@ -8,9 +8,9 @@ from collections.abc import Mapping
 
 from . import cautions as caution_text
 from .errors import InputError, NoSolutionError
+from .physics import camera, harmonic_limits, light, strings, wire
 from .physics import dropper as drop
 from .physics import ripple as rip
-from .physics import strings, wire
 from .physics.flicker import ieee1789_band
 from .physics.led import DEFAULT_TEMPCO, LedModule
 from .quantities.eseries import SERIES, next_down, preferred
@@ -177,6 +177,7 @@ QUANTITY = Calculator(
         Output("exact", "Exact", "text"),
     ),
     _quantity,
+    main=("formatted",),
 )
 
 
@@ -274,6 +275,8 @@ MODULE = Calculator(
         Output("current_at_voltage", "Current at the test voltage", "current"),
     ),
     _module,
+    main=("vf", "vf_min", "vf_max"),
+    secondary=("current_max", "vf_tempco", "vf_spread", "i1", "v1", "i2", "v2", "voltage"),
 )
 
 
@@ -576,6 +579,26 @@ STRING = Calculator(
         Output("headroom", "Headroom", "ratio"),
         Output("rating", "Rating", "text"),
     ),
+    main=("series", "parallel", "string_current", "ballast"),
+    secondary=(
+        "v0",
+        "r_dynamic",
+        "current_max",
+        "vf_tempco",
+        "vf_spread",
+        "temperature_cold",
+        "temperature_hot",
+        "supply_tolerance",
+        "e_series",
+        "derating",
+        "series_max",
+        "parallel_max",
+        "mains_voltage",
+        "frequency",
+        "mains_tolerance",
+        "diode_drop",
+        "bus_fraction",
+    ),
 )
 
 
@@ -824,6 +847,17 @@ DROPPER = Calculator(
         Output("led_current_avg", "LED current", "current"),
     ),
     plots=("current_vs_mains",),
+    main=("led_current_avg", "led_current_low", "led_current_high"),
+    secondary=(
+        "mains_voltage",
+        "frequency",
+        "mains_tolerance",
+        "cap_tolerance",
+        "diode_drop",
+        "discharge_time",
+        "discharge_voltage",
+        "bleeder",
+    ),
 )
 
 
@@ -939,6 +973,8 @@ RIPPLE = Calculator(
     _ripple,
     mains=True,
     plots=("ripple_vs_capacitance",),
+    main=("ripple_pp", "percent_flicker", "flicker_band"),
+    secondary=("r_dynamic", "ballast", "bus_voltage", "target_ripple"),
 )
 
 
@@ -1053,6 +1089,8 @@ WIRE = Calculator(
         Output("smallest_size", "Smallest size for the current and limit", "text"),
     ),
     _wire,
+    main=("drop", "drop_fraction", "ampacity"),
+    secondary=("temperature", "drop_limit", "ampacity_table"),
 )
 
 
@@ -1110,6 +1148,7 @@ PREFERRED = Calculator(
         Output("error", "Nearest is off by", "ratio"),
     ),
     _preferred,
+    main=("nearest", "up", "down"),
 )
 
 
@@ -1169,11 +1208,471 @@ MAINS = Calculator(
         Output("peak_high", "Peak, high", "voltage"),
         Output("source", "Source", "text"),
     ),
+    main=("voltage", "low", "high"),
+    secondary=("mains_voltage", "frequency", "mains_tolerance"),
+)
+
+
+# --- light ------------------------------------------------------------------------
+
+
+def _light(v: V) -> Result:
+    m = light.FluxModel(
+        f(v, "flux"), f(v, "test_current"), f(v, "test_temperature"), f(v, "current_droop"), f(v, "thermal_droop")
+    )
+    i, t = f(v, "current"), f(v, "temperature")
+    n = int(f(v, "modules"))
+    beam = math.radians(f(v, "beam_angle"))
+    dist = f(v, "distance")
+    one = m.at(i, t)
+    flux = n * one * f(v, "optics")
+    warnings: list[str] = []
+    x = i / m.test_current
+    if x > 2 or x < 0.25:
+        warnings.append(
+            f"The working current is {x:.2g}× the test current: the straight-line droop model is rough this far "
+            "from the datasheet's point; read the flux off its curve instead."
+        )
+    if abs(t - m.test_temperature) > 60:
+        warnings.append("The module temperature is far from the test temperature: the linear thermal droop is rough.")
+    power = opt(v, "input_power")
+    vals: dict[str, Value] = {
+        "module_flux": one,
+        "relative": one / m.flux,
+        "fixture_flux": flux,
+        "efficacy": flux / power if power else None,
+        "intensity": light.cone_intensity(flux, beam),
+        "illuminance_axis": light.cone_illuminance(flux, beam, dist),
+        "illuminance_axis_fc": f"{light.footcandles(light.cone_illuminance(flux, beam, dist)):.4g} fc",
+        "distance_ft": f"{light.feet(dist):.4g} ft",
+    }
+    if beam < math.pi * 0.999:
+        dia = light.field_diameter(beam, dist)
+        e = light.disc_illuminance(flux, beam, dist)
+        vals.update(
+            {
+                "field_diameter": dia,
+                "field_diameter_ft": f"{light.feet(dia):.4g} ft",
+                "illuminance_average": e,
+                "illuminance_average_fc": f"{light.footcandles(e):.4g} fc",
+            }
+        )
+    rows: list[dict[str, Value]] = []
+    for k in (0.5, 1.0, 2.0, 4.0):
+        dd = dist * k
+        e_ax = light.cone_illuminance(flux, beam, dd)
+        row: dict[str, Value] = {
+            "distance": dd,
+            "distance_ft": f"{light.feet(dd):.3g} ft",
+            "illuminance_axis": e_ax,
+            "illuminance_axis_fc": f"{light.footcandles(e_ax):.3g} fc",
+        }
+        if beam < math.pi * 0.999:
+            row["field_diameter"] = light.field_diameter(beam, dd)
+            row["illuminance_average"] = light.disc_illuminance(flux, beam, dd)
+        rows.append(row)
+    notes = (
+        "Flux model: flux = Φt·(I/It)·(1 − d·(I/It − 1))·(1 − k·(T − Tt)), with Φt, It, Tt, d and k from the "
+        "module's datasheet (d from its relative-flux curve, k from its flux at a second temperature).",
+        "Uniform cone: all the lumens spread evenly over the cone's solid angle Ω = 2π(1 − cos(β/2)); on-axis "
+        "E = (Φ/Ω)/d². Flat disc: the same lumens spread evenly over the lit circle of radius d·tan(β/2). "
+        "Real beams are brighter in the centre than the disc average; a meter settles it.",
+        "1 fc = 1 lm/ft² = 10.764 lx.",
+    )
+    return Result(vals, tuple(rows), notes, tuple(warnings), cautions=())
+
+
+LIGHT = Calculator(
+    "light",
+    "Light output and illuminance",
+    "Lumens from the module datasheet at the working current and temperature, efficacy, and the light on a "
+    "target at a distance for a beam angle.",
+    (
+        Param(
+            "flux",
+            "Module flux at the test point",
+            "luminous_flux",
+            "26 lm",
+            "Datasheet flux of one module.",
+            0.0,
+            1e7,
+            exclusive_min=True,
+        ),
+        Param(
+            "test_current",
+            "Test current",
+            "current",
+            "60 mA",
+            "The datasheet's test current for that flux.",
+            0.0,
+            100.0,
+            exclusive_min=True,
+        ),
+        Param(
+            "test_temperature",
+            "Test temperature",
+            "temperature",
+            "25 °C",
+            "The datasheet's test temperature.",
+            -60.0,
+            200.0,
+        ),
+        Param(
+            "current_droop",
+            "Current droop d",
+            "ratio",
+            "8 %",
+            "Efficacy lost per test current of extra current (datasheet curve).",
+            0.0,
+            0.99,
+        ),
+        Param(
+            "thermal_droop",
+            "Thermal droop k",
+            "per_kelvin",
+            "0.3 %/K",
+            "Flux lost per kelvin above the test temperature.",
+            0.0,
+            0.05,
+        ),
+        Param("current", "Working current per module (average)", "current", "50 mA", "", 0.0, 100.0),
+        Param("temperature", "Module temperature in use", "temperature", "55 °C", "", -60.0, 200.0),
+        Param("modules", "Modules in the fixture", "count", "68", "", 1, 100000),
+        Param(
+            "input_power",
+            "Input power at the mains",
+            "power",
+            None,
+            "If given, the efficacy at the mains.",
+            0.0,
+            1e6,
+            exclusive_min=True,
+        ),
+        Param(
+            "optics",
+            "Share of the lumens in the beam",
+            "ratio",
+            "100 %",
+            "Optics and reflector losses.",
+            0.0,
+            1.0,
+            exclusive_min=True,
+        ),
+        Param(
+            "beam_angle",
+            "Beam angle (full)",
+            "angle",
+            "110°",
+            "Full cone angle of the beam.",
+            0.1,
+            360.0,
+        ),
+        Param("distance", "Distance to the target", "length", "3 m", "", 0.01, 1e5, imperial="10 ft"),
+    ),
+    (
+        Output("module_flux", "Flux per module", "luminous_flux"),
+        Output("relative", "Against the datasheet's flux", "ratio"),
+        Output("fixture_flux", "Fixture flux (in the beam)", "luminous_flux"),
+        Output("efficacy", "Efficacy at the mains", "efficacy"),
+        Output("intensity", "Intensity (uniform cone)", "luminous_intensity"),
+        Output("illuminance_axis", "Illuminance on axis (uniform cone)", "illuminance"),
+        Output("illuminance_axis_fc", "… in foot-candles", "text"),
+        Output("field_diameter", "Field diameter", "length"),
+        Output("field_diameter_ft", "… in feet", "text"),
+        Output("illuminance_average", "Average over the field (flat disc)", "illuminance"),
+        Output("illuminance_average_fc", "… in foot-candles", "text"),
+        Output("distance_ft", "Distance in feet", "text"),
+    ),
+    _light,
+    columns=(
+        Output("distance", "Distance", "length"),
+        Output("distance_ft", "", "text"),
+        Output("illuminance_axis", "On axis", "illuminance"),
+        Output("illuminance_average", "Average", "illuminance"),
+        Output("field_diameter", "Field", "length"),
+    ),
+)
+
+
+# --- camera -----------------------------------------------------------------------
+
+
+def _light_shape(shape: str, m: float, n: int = 512) -> list[float]:
+    """One ripple period of relative light with percent flicker 100·m."""
+    if shape == "sine":
+        return [max(1 + m * math.sin(2 * math.pi * k / n), 0.0) for k in range(n)]
+    if shape == "sawtooth":
+        return [1 + m - 2 * m * k / n for k in range(n)]
+    # rectified sine riding on a floor a: min a, max a + 1
+    a = (1 - m) / (2 * m) if m > 0 else 1e9
+    return [a + abs(math.sin(math.pi * k / n)) for k in range(n)]
+
+
+def _camera(v: V) -> Result:
+    fr = f(v, "frequency")
+    ripple = (2 if v["rectifier"] == "full" else 1) * fr
+    m = f(v, "percent_flicker")
+    fps = f(v, "frame_rate")
+    if v["shutter"] == "angle":
+        tau = camera.shutter_from_angle(f(v, "shutter_angle"), fps)
+    else:
+        tau = f(v, "shutter_time")
+        if tau > 1 / fps * (1 + 1e-9):
+            raise InputError(
+                "shutter_time", format_value(tau, "time"), f"at most one frame ({format_value(1 / fps, 'time')})"
+            )
+    thr = f(v, "threshold")
+    exp = camera.Exposure(_light_shape(str(v["shape"]), m), 1 / ripple)
+    var, lo, hi = exp.variation(tau)
+    band = ieee1789_band(100 * m, ripple)
+    rows: tuple[Mapping[str, Value], ...] = tuple(
+        {
+            "setting": s.label,
+            "time": s.shutter_time,
+            "variation": s.variation,
+            "ok": "yes" if s.ok else "no",
+        }
+        for s in camera.settings(exp, fps, thr, 256)
+    )
+    ranges = camera.safe_ranges(exp, fps, thr)
+    zero = camera.ripple_multiples(ripple, fps)
+    ok = var <= thr
+    warnings = (
+        []
+        if ok
+        else [f"Exposure varies {var:.1%} from frame to frame at the worst phase: over the {thr:.1%} threshold."]
+    )
+    return Result(
+        {
+            "shutter_time": tau,
+            "ripple_frequency": ripple,
+            "variation": var,
+            "exposure_low": lo,
+            "exposure_high": hi,
+            "beat": camera.beat_frequency(ripple, fps),
+            "verdict": "under the threshold" if ok else "over the threshold",
+            "safe": "; ".join(f"{format_value(a, 'time', 3)}–{format_value(b, 'time', 3)}" for a, b in ranges)
+            or "none",
+            "zero": ", ".join(format_value(t, "time", 3) for t in zero) or "none within one frame",
+            "flicker_band": band.name,
+        },
+        rows,
+        (
+            "Exposure of a frame = the light integrated over the open shutter. The camera's clock is not locked "
+            "to the mains, so over a take every phase comes round: the variation is the spread between the "
+            "brightest and darkest frame, over the mean.",
+            "A shutter open for a whole number of ripple periods sees no change at all.",
+            "'Shows at': the ripple folded about the nearest multiple of the frame rate; near 0 Hz the change "
+            "drifts slowly with the mains frequency.",
+            f"Flicker band: {band.source}.",
+        ),
+        tuple(warnings),
+        cautions=(),
+    )
+
+
+CAMERA = Calculator(
+    "camera",
+    "Flicker on camera",
+    "Frame-to-frame exposure variation from the light ripple for a frame rate and shutter, and the shutter "
+    "settings that keep it under a threshold.",
+    (
+        Param("frequency", "Mains frequency", "frequency", "50 Hz", "", 1.0, 1000.0),
+        Param(
+            "rectifier",
+            "Rectifier",
+            "choice",
+            "full",
+            "full: ripple at twice mains; half: at mains.",
+            choices=("full", "half"),
+        ),
+        Param(
+            "percent_flicker",
+            "Percent flicker of the light",
+            "ratio",
+            "10 %",
+            "From the ripple calculator or a design's sheet.",
+            0.0,
+            1.0,
+            exclusive_min=True,
+        ),
+        Param(
+            "shape",
+            "Ripple shape",
+            "choice",
+            "sawtooth",
+            "sawtooth: smoothing capacitor; sine: gentle ripple; rectified: little or no smoothing.",
+            choices=("sawtooth", "sine", "rectified"),
+        ),
+        Param("frame_rate", "Frame rate", "frame_rate", "24 fps", "Frames per second.", 1.0, 10000.0),
+        Param("shutter", "Shutter given as", "choice", "angle", "", choices=("angle", "time")),
+        Param("shutter_angle", "Shutter angle", "angle", "180°", "", 0.1, 360.0, modes=("angle",)),
+        Param(
+            "shutter_time",
+            "Shutter time",
+            "time",
+            "10 ms",
+            "1/100 s is 10 ms.",
+            1e-6,
+            10.0,
+            modes=("time",),
+        ),
+        Param(
+            "threshold", "Largest variation you accept", "ratio", "2 %", "Your own limit.", 0.0, 1.0, exclusive_min=True
+        ),
+    ),
+    (
+        Output("shutter_time", "Shutter time", "time"),
+        Output("ripple_frequency", "Ripple frequency", "frequency"),
+        Output("variation", "Exposure variation, worst phase", "ratio"),
+        Output("exposure_low", "Darkest frame / mean", "ratio"),
+        Output("exposure_high", "Brightest frame / mean", "ratio"),
+        Output("beat", "Shows at", "frequency"),
+        Output("verdict", "Against your threshold", "text"),
+        Output("safe", "Shutter times under it", "text"),
+        Output("zero", "No variation at", "text"),
+        Output("flicker_band", "IEEE 1789 band", "text"),
+    ),
+    _camera,
+    mode="shutter",
+    columns=(
+        Output("setting", "Shutter", "text"),
+        Output("time", "Time", "time"),
+        Output("variation", "Variation", "ratio"),
+        Output("ok", "Under", "text"),
+    ),
+)
+
+
+# --- harmonic limits ---------------------------------------------------------------
+
+
+def _harmonics(v: V) -> Result:
+    cls = str(v["emission_class"])
+    p, pf, vn = f(v, "active_power"), f(v, "power_factor"), f(v, "mains_voltage")
+    i1 = opt(v, "fundamental")
+    if i1 is None:
+        i1 = p / (vn * pf)  # a rough stand-in: the whole current taken as fundamental
+    measured = {n: opt(v, f"h{n}") for n in (3, 5, 7, 9, 11, 13)}
+    currents = [0.0, i1] + [0.0] * 39
+    for n, x in measured.items():
+        if x is not None:
+            currents[n] = x * i1
+    angles = None
+    if all(opt(v, k) is not None for k in ("angle_start", "angle_peak", "angle_stop")):
+        angles = (f(v, "angle_start"), f(v, "angle_peak"), f(v, "angle_stop"))
+    verdict = harmonic_limits.verdict(cls, currents, p, pf, vn, angles)
+    rows: list[dict[str, Value]] = []
+    for n in range(2, 41):
+        lim = verdict.limits[n]
+        if lim is None:
+            continue
+        given = measured.get(n)
+        rows.append(
+            {
+                "order": float(n),
+                "limit": lim,
+                "limit_pct": lim / i1 if i1 > 0 else None,
+                "measured": given * i1 if given is not None else None,
+                "status": verdict.status[n] if given is not None else "",
+            }
+        )
+    some = any(x is not None for x in measured.values())
+    notes = [
+        f"Limits: {harmonic_limits.SOURCE}; check against the standard before relying on a verdict.",
+        harmonic_limits.RULES[cls],
+        *verdict.notes,
+    ]
+    if opt(v, "fundamental") is None:
+        notes.append(
+            "No fundamental current given: taken as P / (V x PF), which is close only when the current is nearly "
+            "sinusoidal. Type the measured fundamental for percentage limits you can rely on."
+        )
+    return Result(
+        {
+            "band": verdict.band,
+            "fundamental": i1,
+            "verdict": ("pass" if verdict.passed else "over a limit") if some else "no harmonics typed",
+            "applies": "yes" if verdict.applies else "guide only (not 220-240 V)",
+        },
+        tuple(rows),
+        tuple(notes),
+        () if verdict.passed or not some else (f"Over the limit at order {', '.join(map(str, verdict.failures))}.",),
+    )
+
+
+HARMONICS = Calculator(
+    "harmonics",
+    "Harmonic current limits",
+    "The IEC 61000-3-2 limits for a fixture's class and power, and measured harmonics against them.",
+    (
+        Param(
+            "emission_class",
+            "Class",
+            "choice",
+            "C",
+            "C: lighting equipment; A: professional stage and studio luminaires.",
+            choices=harmonic_limits.CLASSES,
+        ),
+        Param(
+            "mains_voltage",
+            "Mains voltage (rms)",
+            "voltage",
+            "230 V",
+            "The standard is written for 220-240 V.",
+            1.0,
+            1000.0,
+        ),
+        Param("active_power", "Active input power", "power", "40 W", "", 0.0, 1e5),
+        Param("power_factor", "Power factor", "ratio", "0.5", "Circuit power factor (P / S).", 0.01, 1.0),
+        Param(
+            "fundamental",
+            "Fundamental current (rms)",
+            "current",
+            None,
+            "Measured or from a design's sheet.",
+            0.0,
+            1000.0,
+            exclusive_min=True,
+        ),
+        Param("h3", "3rd harmonic", "ratio", None, "Percent of the fundamental.", 0.0, 10.0),
+        Param("h5", "5th harmonic", "ratio", None, "", 0.0, 10.0),
+        Param("h7", "7th harmonic", "ratio", None, "", 0.0, 10.0),
+        Param("h9", "9th harmonic", "ratio", None, "", 0.0, 10.0),
+        Param("h11", "11th harmonic", "ratio", None, "", 0.0, 10.0),
+        Param("h13", "13th harmonic", "ratio", None, "", 0.0, 10.0),
+        Param(
+            "angle_start",
+            "Current starts at",
+            "angle",
+            None,
+            "5-25 W lighting: degrees from the voltage zero.",
+            -180.0,
+            180.0,
+        ),
+        Param("angle_peak", "Current's last peak at", "angle", None, "", -180.0, 180.0),
+        Param("angle_stop", "Current stops at", "angle", None, "", -180.0, 270.0),
+    ),
+    (
+        Output("band", "Rules that apply", "text"),
+        Output("fundamental", "Fundamental used", "current"),
+        Output("verdict", "Typed harmonics", "text"),
+        Output("applies", "Binding at this voltage", "text"),
+    ),
+    _harmonics,
+    mains=True,
+    columns=(
+        Output("order", "Order", "count"),
+        Output("limit", "Limit", "current"),
+        Output("limit_pct", "of I₁", "ratio"),
+        Output("measured", "Typed", "current"),
+        Output("status", "", "text"),
+    ),
 )
 
 
 CALCULATORS: dict[str, Calculator] = {
-    c.name: c for c in (DROPPER, STRING, RIPPLE, WIRE, MODULE, PREFERRED, MAINS, QUANTITY)
+    c.name: c for c in (DROPPER, STRING, RIPPLE, WIRE, MODULE, PREFERRED, MAINS, QUANTITY, LIGHT, CAMERA, HARMONICS)
 }
 
 

@@ -74,6 +74,8 @@ class Calculator:
     columns: tuple[Output, ...] = ()  # the table of options, if any
     plots: tuple[str, ...] = ()  # names of sweeps the page may draw
     mains_modes: tuple[str, ...] = ()  # values of the mode param that put the result on the mains
+    main: tuple[str, ...] = ()  # presentation: the outputs a user came for, kept in view in the page
+    secondary: tuple[str, ...] = ()  # presentation: inputs folded under a summary of their values in the page
 
     def param(self, name: str) -> Param:
         for p in self.params:
@@ -256,12 +258,14 @@ def describe(calc: Calculator) -> dict[str, object]:
                 "modes": list(p.modes),
                 "minimum": p.minimum,
                 "maximum": p.maximum,
+                "secondary": p.name in calc.secondary,
             }
             for p in calc.params
         ],
         "outputs": [{"name": o.name, "label": o.label, "dim": o.dim, "help": o.help} for o in calc.outputs],
         "columns": [{"name": o.name, "label": o.label, "dim": o.dim} for o in calc.columns],
         "plots": list(calc.plots),
+        "main": list(calc.main),
     }
 
 

@@ -15,16 +15,23 @@ let failReason = "";
 let seq = 0;
 const pending = new Map();
 
+// Offline needs a service worker, and browsers give one only to a secure context: HTTPS, or localhost
+// on the device itself. Plain http from a laptop on the shop network is not one: say so, never "offline-ready".
+const secure = window.isSecureContext && "serviceWorker" in navigator && location.protocol !== "file:";
+let offlineNote = secure ? "" : "offline not available: this address is plain http, and offline use needs HTTPS (or localhost)";
+
 function setStatus() {
   const text = {
     static: "answers computed at build time",
     loading: "starting the engine…",
-    ready: offlineReady ? "live · offline-ready" : "live",
+    ready: "live",
     failed: "engine unavailable" + (failReason ? " (" + failReason + ")" : "") + ": answers shown were computed at build time",
   }[engineState];
+  const offline = offlineReady ? "offline-ready" : offlineNote;
   for (const el of document.querySelectorAll(".lb-engine")) {
-    el.textContent = text;
-    el.dataset.state = engineState + (offlineReady ? " offline" : "");
+    el.textContent = offline ? `${text} · ${offline}` : text;
+    el.dataset.state = engineState + (offlineReady ? " offline" : secure ? "" : " no-offline");
+    el.title = secure ? "" : "Browsers keep a site for offline use only when it is served over HTTPS (or from localhost on this device).";
   }
 }
 
@@ -84,6 +91,13 @@ function query(request) {
   });
 }
 
+// the declaration sits in a template, out of reach of the theme's script re-creation on page changes
+function dataOf(box) {
+  const tpl = box.querySelector("template.lb-tpl");
+  const el = tpl ? tpl.content.querySelector(".lb-data") : box.querySelector(".lb-data");
+  return JSON.parse(el.textContent);
+}
+
 function inputsOf(box) {
   const out = {};
   for (const el of box.querySelectorAll(".lb-form [name]")) {
@@ -101,6 +115,54 @@ function showModes(box, decl) {
   for (const f of box.querySelectorAll(".lb-field[data-modes]")) f.hidden = !f.dataset.modes.split(" ").includes(mode);
 }
 
+// the folded inputs' line shows what they are set to, so nothing hides a surprise
+function foldSummary(box) {
+  const line = box.querySelector(".lb-more-values");
+  if (!line) return;
+  const parts = [];
+  for (const f of box.querySelectorAll(".lb-more .lb-field")) {
+    if (f.hidden) continue;
+    const el = f.querySelector("[name]");
+    const label = f.querySelector("label").textContent;
+    const v = el.tagName === "SELECT" ? el.options[el.selectedIndex].text : el.value.trim() || (el.placeholder || "blank");
+    parts.push(`${label} ${v}`);
+  }
+  line.textContent = parts.join(" · ");
+}
+
+// --- imperial outputs: lengths, sizes and temperatures follow the unit switch -------------------
+const AWG_D = (n) => 0.127e-3 * Math.pow(92, (36 - n) / 39);
+function imperialOf(si, dim) {
+  if (si === null || si === undefined || typeof si !== "number") return null;
+  if (dim === "temperature") return `${+(si * 9 / 5 + 32).toFixed(1)} °F`;
+  if (dim === "length") {
+    const inches = si / 0.0254;
+    if (inches < 1) return `${+(inches * 1000).toPrecision(3)} mil`;
+    if (inches < 36) return `${+inches.toPrecision(3)} in`;
+    return `${+(si / 0.3048).toPrecision(4)} ft`;
+  }
+  if (dim === "area") {
+    const cmil = si / (Math.PI / 4 * Math.pow(0.0254e-3, 2));
+    let near = null;
+    for (let n = 40; n >= -3; n--) if (Math.abs(Math.log(Math.PI / 4 * AWG_D(n) ** 2 / si)) < 0.03) near = n;
+    const awg = near === null ? "" : ` (${near > 0 ? near : `${1 - near}/0`} AWG)`;
+    return cmil >= 1000 ? `${+(cmil / 1000).toPrecision(3)} kcmil${awg}` : `${Math.round(cmil)} cmil${awg}`;
+  }
+  return null;
+}
+
+function shown(box, decl, ans, name) {
+  if (box.dataset.units === "imperial") {
+    const o = decl.outputs.find((x) => x.name === name);
+    const alt = o ? imperialOf(ans.values[name], o.dim) : null;
+    if (alt) return alt;
+  }
+  return ans.display[name];
+}
+
+// a short value is a number with its unit: it never breaks across lines
+const num = (text) => (String(text).length <= 14 ? ' class="lb-num"' : ' class="lb-wide"');
+
 function esc(s) {
   return String(s).replace(/[&<>"']/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c]);
 }
@@ -115,6 +177,8 @@ function render(box, decl, ans) {
       const input = box.querySelector(`.lb-form [name="${CSS.escape(e.field || "")}"]`);
       if (input) {
         const f = input.closest(".lb-field");
+        const fold = f.closest(".lb-more");
+        if (fold) fold.open = true;
         f.classList.add("lb-bad");
         f.querySelector(".lb-err").textContent = e.expected ? `expected ${e.expected}` : e.message;
       } else loose.push(e.message);
@@ -127,21 +191,31 @@ function render(box, decl, ans) {
   for (const tr of box.querySelectorAll("tr[data-out]")) {
     const k = tr.dataset.out;
     tr.hidden = ans.values[k] === null || ans.values[k] === undefined;
-    tr.querySelector("td").textContent = ans.display[k];
+    tr.querySelector("td").textContent = shown(box, decl, ans, k);
+    if (tr.classList.contains("lb-text")) keepNumbers(tr);
+  }
+  for (const item of box.querySelectorAll(".lb-pin-item")) {
+    const k = item.dataset.pin;
+    item.hidden = ans.values[k] === null || ans.values[k] === undefined;
+    item.querySelector(".lb-pin-value").textContent = shown(box, decl, ans, k);
   }
   warn.innerHTML = ans.warnings.map((m) => `<li>${esc(m)}</li>`).join("");
   box.querySelector(".lb-notes ul").innerHTML = ans.notes.map((m) => `<li>${esc(m)}</li>`).join("");
   const cols = decl.columns.filter((c) => ans.rows.some((r) => r[c.name] !== null && r[c.name] !== undefined));
-  box.querySelector(".lb-rows").innerHTML = ans.rows.length && cols.length
-    ? `<div class="lb-scroll"><table class="lb-table"><thead><tr>${cols.map((c) => `<th>${esc(c.label)}</th>`).join("")}</tr></thead><tbody>` +
-      ans.rows_display.map((r) => `<tr>${cols.map((c) => `<td>${esc(r[c.name])}</td>`).join("")}</tr>`).join("") + "</tbody></table></div>"
+  // the full list of options folds away: the chosen one is in the answers above
+  const rowsHost = box.querySelector(".lb-rows");
+  const wasOpen = Boolean(rowsHost.querySelector("details[open]"));
+  rowsHost.innerHTML = ans.rows.length && cols.length
+    ? `<details class="lb-options"${wasOpen ? " open" : ""}><summary>Every option (${ans.rows.length})</summary><div class="lb-scroll"><table class="lb-table lb-cards" data-labelled="1"><thead><tr>${cols.map((c) => `<th>${esc(c.label)}</th>`).join("")}</tr></thead><tbody>` +
+      ans.rows_display.map((r) => `<tr>${cols.map((c) => `<td data-label="${esc(c.label)}"${num(r[c.name])}>${esc(r[c.name])}</td>`).join("")}</tr>`).join("") + "</tbody></table></div></details>"
     : "";
+  for (const td of rowsHost.querySelectorAll("td")) keepNumbers(td);
 }
 
 // --- plots: sweeps drawn as SVG, axes with units ------------------------------------
 const SWEEPS = {
-  current_vs_mains: { param: "mains_voltage", dim: "V", out: "led_current_avg", label: "LED current against mains voltage", scale: [0.85, 1.15] },
-  ripple_vs_capacitance: { param: "capacitance", dim: "F", out: "ripple_pp", label: "Bus ripple against smoothing capacitance", scale: [0.25, 4], log: true },
+  current_vs_mains: { param: "mains_voltage", dim: "V", out: "led_current_avg", label: "LED current against mains voltage", scale: [0.85, 1.15], xTitle: "Mains voltage", yTitle: "LED current" },
+  ripple_vs_capacitance: { param: "capacitance", dim: "F", out: "ripple_pp", label: "Bus ripple against smoothing capacitance", scale: [0.25, 4], log: true, xTitle: "Smoothing capacitance", yTitle: "Bus ripple, peak to peak" },
 };
 const SI = [[1e-12, "p"], [1e-9, "n"], [1e-6, "µ"], [1e-3, "m"], [1, ""], [1e3, "k"], [1e6, "M"]];
 function si(x, unit) {
@@ -177,19 +251,41 @@ async function plot(box, decl, ans) {
   if (pts.length < 2) { host.innerHTML = ""; return; }
   const outDecl = decl.outputs.find((o) => o.name === sw.out);
   const unit = { current: "A", voltage: "V" }[outDecl.dim] || "";
-  const W = 320, H = 180, L = 52, B = 30, T = 10, R = 10;
+  const W = 340, H = 220, L = 58, B = 44, T = 10, R = 12;
   const xs = pts.map((p) => p[0]), ys = pts.map((p) => p[1]);
-  const x0 = Math.min(...xs), x1 = Math.max(...xs), y0 = 0, y1 = Math.max(...ys) * 1.1 || 1;
+  const x0 = Math.min(...xs), x1 = Math.max(...xs);
+  // the value axis starts at zero, so a small change looks small
+  const yt = ticks(0, Math.max(...ys) * 1.05 || 1, 5), y0 = 0, y1 = yt[yt.length - 1];
   const fx = (x) => sw.log ? L + (W - L - R) * Math.log(x / x0) / Math.log(x1 / x0) : L + (W - L - R) * (x - x0) / (x1 - x0);
   const fy = (y) => H - B - (H - B - T) * (y - y0) / (y1 - y0);
+  const xt = sw.log ? logTicks(x0, x1) : ticks(x0, x1, 4).filter((x) => x >= x0 && x <= x1);
   const line = pts.map((p) => `${fx(p[0]).toFixed(1)},${fy(p[1]).toFixed(1)}`).join(" ");
   const cx = fx(centre), cy = fy(ans.values[sw.out] ?? 0);
-  host.innerHTML = `<figure class="lb-fig"><svg viewBox="0 0 ${W} ${H}" role="img" aria-label="${esc(sw.label)}">
+  const grid = yt.map((y) => `<line x1="${L}" y1="${fy(y).toFixed(1)}" x2="${W - R}" y2="${fy(y).toFixed(1)}" class="gr"/>` +
+    `<text x="${L - 4}" y="${(fy(y) + 3).toFixed(1)}" class="tk" text-anchor="end">${esc(si(y, unit))}</text>`).join("") +
+    xt.map((x) => `<line x1="${fx(x).toFixed(1)}" y1="${H - B}" x2="${fx(x).toFixed(1)}" y2="${H - B + 4}" class="ax"/>` +
+    `<text x="${fx(x).toFixed(1)}" y="${H - B + 15}" class="tk" text-anchor="middle">${esc(si(x, sw.dim))}</text>`).join("");
+  host.innerHTML = `<figure class="lb-fig"><svg viewBox="0 0 ${W} ${H}" role="img" aria-label="${esc(sw.label)}">${grid}
 <line x1="${L}" y1="${H - B}" x2="${W - R}" y2="${H - B}" class="ax"/><line x1="${L}" y1="${T}" x2="${L}" y2="${H - B}" class="ax"/>
-<text x="${L}" y="${H - 8}" class="tk">${esc(si(x0, sw.dim))}</text><text x="${W - R}" y="${H - 8}" class="tk" text-anchor="end">${esc(si(x1, sw.dim))}</text>
-<text x="${L - 4}" y="${T + 8}" class="tk" text-anchor="end">${esc(si(y1, unit))}</text><text x="${L - 4}" y="${H - B}" class="tk" text-anchor="end">0</text>
+<text x="${(L + W - R) / 2}" y="${H - 6}" class="ti" text-anchor="middle">${esc(sw.xTitle)} (${esc(sw.dim)})${sw.log ? ", log scale" : ""}</text>
+<text transform="translate(12 ${(T + H - B) / 2}) rotate(-90)" class="ti" text-anchor="middle">${esc(sw.yTitle)} (${esc(unit)})</text>
 <polyline points="${line}" class="ln"/><circle cx="${cx.toFixed(1)}" cy="${cy.toFixed(1)}" r="4" class="pt"/></svg>
 <figcaption>${esc(sw.label)}; the dot is the current input.</figcaption></figure>`;
+}
+
+// round steps (1, 2, 5 × 10^k) from lo to at least hi
+function ticks(lo, hi, n) {
+  const raw = (hi - lo) / n, mag = Math.pow(10, Math.floor(Math.log10(raw)));
+  const step = [1, 2, 2.5, 5, 10].map((k) => k * mag).find((k) => k >= raw);
+  const out = [];
+  for (let v = Math.floor(lo / step) * step; v < hi + step * 0.999; v += step) out.push(+v.toPrecision(12));
+  return out;
+}
+function logTicks(lo, hi) {
+  const out = [];
+  for (let e = Math.floor(Math.log10(lo)); e <= Math.ceil(Math.log10(hi)); e++)
+    for (const k of [1, 2, 5]) { const v = k * Math.pow(10, e); if (v >= lo * 0.999 && v <= hi * 1.001) out.push(+v.toPrecision(6)); }
+  return out;
 }
 
 // --- share links: page/?lb=ID&input=value#ID (a query, not the hash: the theme owns the hash) --------
@@ -214,9 +310,9 @@ function fromQuery(box) {
 const timers = new WeakMap();
 async function run(box) {
   if (engineState !== "ready") return;
-  const data = JSON.parse(box.querySelector(".lb-data").textContent);
-  const decl = data.declaration;
+  const decl = dataOf(box).declaration;
   showModes(box, decl);
+  foldSummary(box);
   const ans = await query({ kind: "compute", calculator: decl.name, inputs: inputsOf(box) });
   render(box, decl, ans);
   box.querySelector(".lb-link").setAttribute("href", linkFor(box));
@@ -253,6 +349,8 @@ function initOpen() {
       }
       // the sheet is built by the core, which escapes everything the file says
       out.innerHTML = `<h2>${esc(ans.name)}</h2>` + ans.html;
+      labelTables(out);
+      initSheets();
       box.dataset.computed = String(Number(box.dataset.computed || 0) + 1);
     });
   }
@@ -279,29 +377,84 @@ function initBenches() {
   }
 }
 
+// in running text a number keeps its unit on its line (a no-break space joins them)
+const NUMBER_UNIT = /(\d) (?=(?:[pnµumkMG]?(?:VA|V|A|W|Ω|F|Hz|s|J|h)|%|°C|°F|mm²|AWG|kcmil)(?![\w]))/g;
+function keepNumbers(el) {
+  const walker = document.createTreeWalker(el, NodeFilter.SHOW_TEXT);
+  for (let n = walker.nextNode(); n; n = walker.nextNode())
+  {
+    const joined = n.data.replace(NUMBER_UNIT, "$1\u00a0");
+    if (joined !== n.data) n.data = joined;
+  }
+}
+
+// narrow screens show long tables as stacked label/value cards: each cell learns its column's label
+function labelTables(scope) {
+  for (const td of scope.querySelectorAll(".lb-out tr.lb-text td, .lb-table td")) keepNumbers(td);
+  for (const t of scope.querySelectorAll("table.lb-cards:not([data-labelled])")) {
+    const heads = [...t.querySelectorAll("thead th")].map((th) => th.textContent.trim());
+    for (const tr of t.querySelectorAll("tbody tr"))
+      [...tr.children].forEach((td, i) => {
+        td.dataset.label = heads[i] || "";
+        if (td.textContent.trim().length <= 14) td.classList.add("lb-num");
+        else td.classList.add("lb-wide");
+      });
+    t.dataset.labelled = "1";
+  }
+}
+
+// a schematic opens full screen, where it can be scrolled and pinched to read every label
+function initSheets() {
+  for (const fig of document.querySelectorAll(".lb-schematic:not([data-live])")) {
+    fig.dataset.live = "1";
+    const b = document.createElement("button");
+    b.type = "button";
+    b.className = "lb-zoom";
+    b.textContent = "Open full screen";
+    b.addEventListener("click", () => {
+      const full = fig.classList.toggle("lb-full");
+      b.textContent = full ? "Close" : "Open full screen";
+      if (!full) fig.scrollIntoView({ block: "center" });
+    });
+    fig.prepend(b);
+  }
+}
+// on paper every check shows its reason and source
+window.addEventListener("beforeprint", () => {
+  for (const d of document.querySelectorAll(".lb-checklist details")) d.open = true;
+});
+
 function init() {
   initOpen();
   initBenches();
+  initSheets();
+  labelTables(document);
   const boxes = document.querySelectorAll(".lb-calc:not([data-live])");
   if (!boxes.length) { setStatus(); if (!worker) startOffline(); return; }
   setStatus();
   startEngine();
   for (const box of boxes) {
     box.dataset.live = "1";
-    const decl = JSON.parse(box.querySelector(".lb-data").textContent).declaration;
+    const decl = dataOf(box).declaration;
     const shared = fromQuery(box);
     showModes(box, decl);
+    foldSummary(box);
     const later = () => {
       clearTimeout(timers.get(box));
       timers.set(box, setTimeout(() => run(box), 120));
     };
     box.querySelector(".lb-form").addEventListener("input", later);
     box.querySelector(".lb-form").addEventListener("change", later);
+    // the mode's fields show at once, engine or not
+    const onEdit = () => { showModes(box, decl); foldSummary(box); };
+    box.querySelector(".lb-form").addEventListener("input", onEdit);
+    box.querySelector(".lb-form").addEventListener("change", onEdit);
     const units = box.querySelector(".lb-units");
     if (units) units.addEventListener("click", () => {
       const imperial = units.dataset.system === "metric";
       for (const el of box.querySelectorAll("[data-imperial]")) el.value = imperial ? el.dataset.imperial : el.dataset.default;
       units.dataset.system = imperial ? "imperial" : "metric";
+      box.dataset.units = units.dataset.system;
       units.textContent = imperial ? "Metric units" : "Imperial units";
       later();
     });
@@ -318,19 +471,48 @@ function init() {
 // precache revalidates files the page has just loaded instead of downloading them twice.
 let swStarted = false;
 function startOffline() {
-  if (swStarted || !("serviceWorker" in navigator) || location.protocol === "file:") return;
+  if (swStarted || !secure || !site.engine) return;
   swStarted = true;
   navigator.serviceWorker.register(new URL("sw.js", root).href, { scope: root.href }).then(
     async () => {
       await navigator.serviceWorker.ready;
-      offlineReady = true;
+      if (!navigator.serviceWorker.controller)
+        await new Promise((resolve) => navigator.serviceWorker.addEventListener("controllerchange", resolve, { once: true }));
+      offlineReady = await precacheComplete();
+      if (!offlineReady) offlineNote = "offline copy incomplete";
       setStatus();
       if (navigator.storage && navigator.storage.persist) navigator.storage.persist().catch(() => {});
     },
-    (e) => console.warn("lampbook: offline cache unavailable:", e),
+    (e) => {
+      offlineNote = "offline unavailable (" + String(e && e.message ? e.message : e).slice(0, 80) + ")";
+      setStatus();
+      console.warn("lampbook: offline cache unavailable:", e);
+    },
   );
 }
-if ("serviceWorker" in navigator && navigator.serviceWorker.controller) startOffline();
+
+// "offline-ready" is a claim: the service worker controls this page and its cache holds the whole build.
+// The cache is filled all or nothing at install, so this build's cache holding the engine glue proves it.
+async function precacheComplete() {
+  const sw = navigator.serviceWorker.controller;
+  if (!sw || !("caches" in window)) return false;
+  const version = await new Promise((resolve) => {
+    const t = setTimeout(() => resolve(null), 3000);
+    const onMsg = (ev) => {
+      if (ev.data && ev.data.type === "version") {
+        clearTimeout(t);
+        navigator.serviceWorker.removeEventListener("message", onMsg);
+        resolve(ev.data.version);
+      }
+    };
+    navigator.serviceWorker.addEventListener("message", onMsg);
+    sw.postMessage("version");
+  });
+  if (!version || !(await caches.has("lampbook-" + version))) return false;
+  const cache = await caches.open("lampbook-" + version);
+  return Boolean(await cache.match(new URL("assets/lampbook/worker.js", root).href));
+}
+if (secure && navigator.serviceWorker.controller) startOffline();
 
 if (typeof document$ !== "undefined" && document$.subscribe) document$.subscribe(init);
 else if (document.readyState === "loading") document.addEventListener("DOMContentLoaded", init);

@@ -24,7 +24,7 @@ from __future__ import annotations
 
 import math
 from collections.abc import Sequence
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 from ..errors import ConvergenceError, InputError, NoSolutionError
 from ..physics.flicker import ieee1789_band
@@ -551,6 +551,9 @@ class SteadyState:
     waveform: dict[str, tuple[float, ...]]
     iterations: int
     steps: int
+    #: one whole period on a uniform grid of ``spectrum_points`` (empty unless asked for): "t", "mains_V",
+    #: "line_current_A", "led_current_A" and "string{k}_A" (one string of group k)
+    period_samples: dict[str, tuple[float, ...]] = field(default_factory=dict)
 
 
 def initial_state(c: Circuit) -> Vec:
@@ -587,7 +590,12 @@ def initial_state(c: Circuit) -> Vec:
     return (vcd, vb)
 
 
-def solve(c: Circuit, points: int = 600, wave_points: int = 200) -> SteadyState:
+def solve(c: Circuit, points: int = 600, wave_points: int = 200, spectrum_points: int = 0) -> SteadyState:
+    """The periodic steady state. ``spectrum_points`` (even, 0 for none) adds
+    ``period_samples``: the waveforms on that many equally spaced points per
+    period, for harmonic spectra and camera exposure."""
+    if spectrum_points < 0 or spectrum_points % 2:
+        raise InputError("spectrum_points", spectrum_points, "an even number of samples per period, or 0")
     sol = Solver(c)
     a0 = c.bridge.threshold()
     if c.strings and min(s.knee for s in c.strings) >= sol.vpk - a0:
@@ -599,7 +607,30 @@ def solve(c: Circuit, points: int = 600, wave_points: int = 200) -> SteadyState:
         )
     x0 = sol.solve(initial_state(c))
     _, _, segs = sol.half_period(x0, record=True)
-    return _measure(sol, segs, points, wave_points)
+    st = _measure(sol, segs, points, wave_points)
+    if spectrum_points:
+        st = replace(st, period_samples=_period_samples(sol, segs, spectrum_points))
+    return st
+
+
+def _period_samples(sol: Solver, segs: list[tuple[float, float, Mode, Vec]], n: int) -> dict[str, tuple[float, ...]]:
+    """Exact waveforms at t = k T / n, k = 0 .. n - 1 (the second half mirrors the first)."""
+    half_n = n // 2
+    rows: list[tuple[float, ...]] = []
+    si = 0
+    for q in range(half_n):
+        t = sol.half * q / half_n
+        while si + 1 < len(segs) and t >= segs[si][1]:
+            si += 1
+        t0, _, m, x0 = segs[si]
+        x, _ = sol.propagate(m, t0, x0, t - t0)
+        vb = sol.value(m.vb_lin, x, t)
+        per = tuple(max(vb - s.knee, 0.0) / s.resistance for s in sol.loads)
+        led = sum(s.count * p for s, p in zip(sol.loads, per))
+        rows.append((t, sol.vpk * math.sin(sol.omega * t), sol.value(m.i_lin, x, t), led, *per))
+    rows += [(r[0] + sol.half, -r[1], -r[2], *r[3:]) for r in rows]
+    names = ["t", "mains_V", "line_current_A", "led_current_A"] + [f"string{k}_A" for k in range(len(sol.loads))]
+    return {name: tuple(r[j] for r in rows) for j, name in enumerate(names)}
 
 
 def _nodes(segs: list[tuple[float, float, Mode, Vec]], half: float, n: int) -> list[tuple[int, float, float]]:

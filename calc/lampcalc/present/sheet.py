@@ -8,10 +8,12 @@ from __future__ import annotations
 
 import html
 import math
+import re
 from typing import Any
 
 from ..fixture.design import Design
 from ..physics import wire as wr
+from ..physics.harmonic_limits import RULES
 from ..quantities.units import format_value as fv
 
 OPERATING_ROWS: tuple[tuple[str, str, str], ...] = (
@@ -65,8 +67,10 @@ def _e(x: object) -> str:
 def _table(headers: list[str], rows: list[list[str]], cls: str = "") -> str:
     head = "".join(f"<th>{_e(h)}</th>" for h in headers)
     body = "".join("<tr>" + "".join(f"<td>{c}</td>" for c in r) + "</tr>" for r in rows)
+    # a table too wide for a phone becomes labelled cards there; a compact one (short numbers) stays a grid
+    kind = "lb-table" if "lb-compact" in cls else "lb-table lb-cards"
     return (
-        f'<div class="lb-scroll"><table class="lb-table {cls}"><thead><tr>{head}</tr></thead>'
+        f'<div class="lb-scroll"><table class="{kind} {cls}"><thead><tr>{head}</tr></thead>'
         f"<tbody>{body}</tbody></table></div>"
     )
 
@@ -393,45 +397,89 @@ def schematic(d: Design) -> str:
     )
 
 
+def nice_ticks(lo: float, hi: float, n: int = 4) -> list[float]:
+    """Round steps (1, 2, 2.5, 5 x 10^k) covering lo..hi."""
+    if not hi > lo:
+        hi = lo + (abs(lo) or 1.0)
+    raw = (hi - lo) / n
+    mag = 10 ** math.floor(math.log10(raw))
+    step = next(k * mag for k in (1, 2, 2.5, 5, 10) if k * mag >= raw * 0.999)
+    first = math.floor(lo / step + 1e-9) * step
+    out, k = [], 0
+    while True:
+        v = round(first + k * step, 12)
+        out.append(v)
+        if v >= hi - 1e-12 * abs(hi):
+            return out
+        k += 1
+
+
+def _axes(x0: float, x1: float, y0: float, y1: float, box: tuple[float, float, float, float]) -> tuple[Any, Any]:
+    left, top, width, height = box
+
+    def fx(x: float) -> float:
+        return left + width * (x - x0) / (x1 - x0)
+
+    def fy(y: float) -> float:
+        return top + height * (1 - (y - y0) / (y1 - y0))
+
+    return fx, fy
+
+
 def waveform(w: dict[str, list[float]]) -> str:
-    """LED current and bus voltage over one mains period, two stacked plots with axes and units."""
+    """LED current and bus voltage over one mains period: two stacked plots with axis titles, units, a
+    grid of round ticks; the current axis starts at zero, the voltage axis says where it starts."""
     t = w["t"]
     if not t:
         return ""
     T = t[-1] + (t[1] - t[0])
-    W, Hp, L, R = 360, 110, 52, 10
+    W, Hp, L, R, gap = 360, 120, 60, 12, 58
     out = []
-    for k, (key, unit, dim, colour) in enumerate(
+    xt = [T * k / 4 for k in range(5)]
+    for k, (key, title, dim, colour, from_zero) in enumerate(
         (
-            ("led_current_A", "LED current", "current", "#c8780a"),
-            ("bus_V", "bus voltage", "voltage", "#26323a"),
+            ("led_current_A", "LED current", "current", "#c8780a", True),
+            ("bus_V", "Bus voltage", "voltage", "#26323a", False),
         )
     ):
         ys = w[key]
         lo, hi = min(ys), max(ys)
-        pad = (hi - lo) * 0.1 or abs(hi) * 0.05 or 1.0
-        y0, y1 = lo - pad, hi + pad
-        top = 10 + k * (Hp + 24)
-        pts = " ".join(
-            f"{L + (W - L - R) * ti / T:.1f},{top + Hp * (1 - (y - y0) / (y1 - y0)):.1f}" for ti, y in zip(t, ys)
-        )
+        if from_zero or lo <= 0:
+            yt = nice_ticks(0.0, hi * 1.05 if hi > 0 else 1.0)
+        else:
+            pad = (hi - lo) * 0.15 or abs(hi) * 0.05 or 1.0
+            yt = nice_ticks(lo - pad, hi + pad)
+        y0, y1 = yt[0], yt[-1]
+        top = 24 + k * (Hp + gap)
+        fx, fy = _axes(0.0, T, y0, y1, (L, top, W - L - R, Hp))
+        note = "" if y0 == 0 else f"; axis starts at {fv(y0, dim)}, not zero"
+        unit = {"current": "A", "voltage": "V"}[dim]
+        pts = " ".join(f"{fx(ti):.1f},{fy(y):.1f}" for ti, y in zip(t, ys))
+        out.append(f'<text x="{L}" y="{top - 8}" class="ti">{_e(title)} ({unit}){_e(note)}</text>')
+        for y in yt:
+            out.append(
+                f'<line x1="{L}" y1="{fy(y):.1f}" x2="{W - R}" y2="{fy(y):.1f}" class="gr"/>'
+                f'<text x="{L - 4}" y="{fy(y) + 3:.1f}" class="tk" text-anchor="end">{_e(fv(y, dim, 3))}</text>'
+            )
+        for x in xt:
+            out.append(
+                f'<line x1="{fx(x):.1f}" y1="{top + Hp}" x2="{fx(x):.1f}" y2="{top + Hp + 4}" class="ax"/>'
+                f'<text x="{fx(x):.1f}" y="{top + Hp + 15}" class="tk" '
+                f'text-anchor="{"end" if x == xt[-1] else "middle"}">'
+                f"{_e(fv(x, 'time', 3) if x else '0')}</text>"
+            )
         out.append(
-            f'<text x="{L - 4}" y="{top + 8}" class="tk" text-anchor="end">{_e(fv(y1, dim))}</text>'
-            f'<text x="{L - 4}" y="{top + Hp}" class="tk" text-anchor="end">{_e(fv(y0, dim))}</text>'
             f'<line x1="{L}" y1="{top + Hp}" x2="{W - R}" y2="{top + Hp}" class="ax"/>'
             f'<line x1="{L}" y1="{top}" x2="{L}" y2="{top + Hp}" class="ax"/>'
             f'<polyline points="{pts}" fill="none" stroke="{colour}" stroke-width="1.8"/>'
-            f'<text x="{W - R}" y="{top + 10}" class="tk" text-anchor="end">{_e(unit)}</text>'
         )
-    Ht = 2 * (Hp + 24) + 6
-    out.append(
-        f'<text x="{L}" y="{Ht}" class="tk">0</text>'
-        f'<text x="{W - R}" y="{Ht}" class="tk" text-anchor="end">{_e(fv(T, "time"))}</text>'
-    )
+    Ht = 24 + 2 * (Hp + gap) - 12
+    out.append(f'<text x="{(L + W - R) / 2}" y="{Ht}" class="ti" text-anchor="middle">Time (s)</text>')
     return (
-        f'<figure class="lb-fig"><svg viewBox="0 0 {W} {Ht + 4}" role="img" '
+        f'<figure class="lb-fig"><svg viewBox="0 0 {W} {Ht + 6}" role="img" '
         'aria-label="LED current and bus voltage over one period">'
-        "<style>.ax{stroke:currentColor}.tk{font:10px sans-serif;fill:currentColor}</style>"
+        "<style>.ax{stroke:currentColor}.gr{stroke:currentColor;stroke-opacity:.15}"
+        ".tk{font:10px sans-serif;fill:currentColor}.ti{font:600 11px sans-serif;fill:currentColor}</style>"
         + "".join(out)
         + "</svg><figcaption>One mains period at nominal mains, from the steady-state solve.</figcaption></figure>"
     )
@@ -440,24 +488,89 @@ def waveform(w: dict[str, list[float]]) -> str:
 def histogram(study: dict[str, Any]) -> str:
     h = study["histogram"]
     counts = h["counts"]
-    W, Hh, L, B = 360, 160, 40, 28
-    top = max(counts) or 1
-    bw = (W - L - 10) / len(counts)
-    bars = "".join(
-        f'<rect x="{L + k * bw:.1f}" y="{Hh - B - (Hh - B - 10) * c / top:.1f}" '
-        f'width="{bw - 1:.1f}" height="{(Hh - B - 10) * c / top:.1f}" class="bar"/>'
-        for k, c in enumerate(counts)
-    )
+    W, Hh, L, B, R, T = 360, 200, 48, 46, 12, 12
     lo, hi = h["low_A"], h["low_A"] + h["bin_A"] * len(counts)
+    yt = nice_ticks(0.0, float(max(counts) or 1), 4)
+    fx, fy = _axes(lo, hi, 0.0, yt[-1], (L, T, W - L - R, Hh - B - T))
+    bw = (W - L - R) / len(counts)
+    parts = [
+        f'<line x1="{L}" y1="{fy(y):.1f}" x2="{W - R}" y2="{fy(y):.1f}" class="gr"/>'
+        f'<text x="{L - 4}" y="{fy(y) + 3:.1f}" class="tk" text-anchor="end">{y:g}</text>'
+        for y in yt
+    ]
+    parts += [
+        f'<rect x="{L + k * bw:.1f}" y="{fy(c):.1f}" width="{max(bw - 1, 0.5):.1f}" height="{fy(0) - fy(c):.1f}" '
+        'class="bar"/>'
+        for k, c in enumerate(counts)
+    ]
+    xt = [x for x in nice_ticks(lo, hi, 4) if lo - 1e-12 <= x <= hi + 1e-12]
+    parts += [
+        f'<line x1="{fx(x):.1f}" y1="{Hh - B}" x2="{fx(x):.1f}" y2="{Hh - B + 4}" class="ax"/>'
+        f'<text x="{fx(x):.1f}" y="{Hh - B + 15}" class="tk" text-anchor="middle">{_e(fv(x, "current", 3))}</text>'
+        for x in xt
+    ]
     return (
         f'<figure class="lb-fig"><svg viewBox="0 0 {W} {Hh}" role="img" aria-label="Histogram of LED current">'
-        "<style>.bar{fill:#c8780a}.ax{stroke:currentColor}.tk{font:10px sans-serif;fill:currentColor}</style>"
-        f'<line x1="{L}" y1="{Hh - B}" x2="{W - 10}" y2="{Hh - B}" class="ax"/>{bars}'
-        f'<text x="{L}" y="{Hh - 10}" class="tk">{_e(fv(lo, "current"))}</text>'
-        f'<text x="{W - 10}" y="{Hh - 10}" class="tk" text-anchor="end">{_e(fv(hi, "current"))}</text>'
-        f'<text x="{L - 4}" y="18" class="tk" text-anchor="end">{top}</text></svg>'
+        "<style>.bar{fill:#c8780a}.ax{stroke:currentColor}.gr{stroke:currentColor;stroke-opacity:.15}"
+        ".tk{font:10px sans-serif;fill:currentColor}.ti{font:600 11px sans-serif;fill:currentColor}</style>"
+        + "".join(parts)
+        + f'<line x1="{L}" y1="{Hh - B}" x2="{W - R}" y2="{Hh - B}" class="ax"/>'
+        f'<line x1="{L}" y1="{T}" x2="{L}" y2="{Hh - B}" class="ax"/>'
+        f'<text x="{(L + W - R) / 2}" y="{Hh - 8}" class="ti" text-anchor="middle">LED current (A); '
+        "the axis spans the builds' range</text>"
+        f'<text transform="translate(12 {(T + Hh - B) / 2}) rotate(-90)" class="ti" text-anchor="middle">Builds</text>'
+        "</svg>"
         f"<figcaption>LED current over {study['samples']} random builds (seed {study['seed']}).</figcaption></figure>"
     )
+
+
+# --- checks as a list: status and id on one line, the finding, why and source on demand -----------
+
+_UNVERIFIED = re.compile(r"\s*\(([^()]*\bfrom memory\b[^()]*)\)|[,;]?\s*\bfrom memory\b", re.I)
+
+
+def citation(source: str) -> tuple[str, bool]:
+    """A source as a reader's citation, and whether its limit is still unverified against the published text
+    (marked once on the sheet, not repeated in every line)."""
+    unverified = bool(_UNVERIFIED.search(source))
+
+    def keep(m: re.Match[str]) -> str:
+        parts = re.split(r"[;:]", m.group(1) or "")
+        rest = [x.strip() for x in parts if x.strip() and "memory" not in x and "check against" not in x]
+        return f" ({'; '.join(rest)})" if rest else ""
+
+    return _UNVERIFIED.sub(keep, source).strip(" ,;"), unverified
+
+
+_NUMBER_UNIT = re.compile(r"(\d) (?=(?:[pnµumkMG]?(?:VA|V|A|W|Ω|F|Hz|s|J|h)|%|°C|°F|mm²|AWG)(?![\w]))")
+
+
+def keep_numbers(text: str) -> str:
+    """A number and its unit are joined by a no-break space, so a narrow line never splits them."""
+    return _NUMBER_UNIT.sub("\\1\u00a0", text)
+
+
+UNVERIFIED_NOTE = (
+    "† The limit in this check was recalled, not yet read against the published standard: "
+    "check it there before relying on it; local codes and licensed practice decide."
+)
+
+
+def checks_list(checks: list[dict[str, Any]]) -> str:
+    items, any_unverified = [], False
+    for c in checks:
+        src, unverified = citation(str(c["source"]))
+        any_unverified |= unverified
+        items.append(
+            f'<li class="lb-check lb-{_e(c["status"])}"><div class="lb-check-head">'
+            f'<span class="lb-st lb-{_e(c["status"])}">{_e(c["status"].upper())}</span> '
+            f"<code>{_e(c['id'])}</code></div>"
+            f'<p class="lb-check-finding">{_e(keep_numbers(str(c["message"])))}</p>'
+            f"<details><summary>Why and source</summary><p>{_e(keep_numbers(str(c['why'])))}</p>"
+            f'<p class="lb-cite">Source: {_e(src)}{"†" if unverified else ""}</p></details></li>'
+        )
+    note = f'<p class="lb-unverified">{_e(UNVERIFIED_NOTE)}</p>' if any_unverified else ""
+    return '<ul class="lb-checklist">' + "".join(items) + "</ul>" + note
 
 
 def render(d: Design, ans: dict[str, Any], study: dict[str, Any] | None) -> str:
@@ -492,6 +605,7 @@ def render(d: Design, ans: dict[str, Any], study: dict[str, Any] | None) -> str:
                 [_e(lab)] + [_e(cell(ans[c].get(key), kd)) for c in ("low", "nominal", "high")]
                 for lab, key, kd in rows_def
             ],
+            "lb-compact",
         )
     )
     if ans.get("steps"):
@@ -503,6 +617,7 @@ def render(d: Design, ans: dict[str, Any], study: dict[str, Any] | None) -> str:
                     [fv(st["capacitance_F"], "capacitance"), fv(st["led_current_avg_A"], "current")]
                     for st in ans["steps"]
                 ],
+                "lb-compact",
             )
         )
     if ans.get("waveform"):
@@ -516,23 +631,11 @@ def render(d: Design, ans: dict[str, Any], study: dict[str, Any] | None) -> str:
             f"<strong>{_e(fv(ans['open_load_bus_V'], 'voltage'))}</strong> "
             f"(time constant {_e(fv(ans['open_load_time_constant_s'], 'time'))}).</p>"
         )
+    out.append(mains_quality_section(d, ans))
+    out.append(light_section(d, ans))
+    out.append(camera_section(d, ans))
     out.append("<h2>Checks</h2>")
-    out.append(
-        _table(
-            ["check", "result", "finding", "why", "source"],
-            [
-                [
-                    f"<code>{_e(c['id'])}</code>",
-                    f'<span class="lb-st lb-{_e(c["status"])}">{_e(c["status"].upper())}</span>',
-                    _e(c["message"]),
-                    _e(c["why"]),
-                    _e(c["source"]),
-                ]
-                for c in ans["checks"]
-            ],
-            "lb-checks",
-        )
-    )
+    out.append(checks_list(ans["checks"]))
     out.append("<h2>Bill of materials</h2>")
     out.append(_table(["part", "value", "declared", "required"], bom(d, ans)))
     wires = wiring(d, ans)
@@ -563,6 +666,7 @@ def render(d: Design, ans: dict[str, Any], study: dict[str, Any] | None) -> str:
                     ],
                     [_e(stx["name"]), f"{stx['p1']:.0%}", f"{stx['p50']:.0%}", f"{stx['p99']:.0%}"],
                 ],
+                "lb-compact",
             )
         )
         out.append(histogram(study))
@@ -579,3 +683,275 @@ def render(d: Design, ans: dict[str, Any], study: dict[str, Any] | None) -> str:
 
 def markdown_page(d: Design, ans: dict[str, Any], study: dict[str, Any] | None) -> str:
     return f"# {d.name}\n\n" + render(d, ans, study) + "\n"
+
+
+# --- what the fixture does to the mains, its light, and how it looks on camera ---------------------
+
+
+def _pct(x: float | None, digits: int = 1) -> str:
+    return "—" if x is None else f"{100 * x:.{digits}f} %"
+
+
+def spectrum_chart(h: list[dict[str, Any]]) -> str:
+    """Bars: orders 2 to 40 as a percentage of the fundamental; ticks: the limits."""
+    i1 = h[0]["current_A"]
+    if i1 <= 0:
+        return ""
+    rows = h[1:]
+    vals = [100 * r["current_A"] / i1 for r in rows]
+    lims = [None if r["limit_A"] is None else 100 * r["limit_A"] / i1 for r in rows]
+    biggest = max(vals)
+    near = [x for x in lims if x is not None and x <= 2.5 * biggest]
+    top = max([biggest, *near]) * 1.1 or 1.0
+    W, H, L, B, T, R = 360, 170, 40, 26, 10, 8
+    bw = (W - L - R) / len(rows)
+
+    def y(v: float) -> float:
+        return H - B - (H - B - T) * min(v, top) / top
+
+    parts = []
+    for k, (r, v, lim) in enumerate(zip(rows, vals, lims)):
+        x = L + k * bw
+        cls = "over" if r["status"] == "fail" else "bar"
+        parts.append(
+            f'<rect x="{x + 1:.1f}" y="{y(v):.1f}" width="{bw - 2:.1f}" height="{H - B - y(v):.1f}" class="{cls}"/>'
+        )
+        if lim is not None and lim <= top:
+            ly = y(lim)
+            parts.append(f'<line x1="{x:.1f}" y1="{ly:.1f}" x2="{x + bw:.1f}" y2="{ly:.1f}" class="lim"/>')
+        elif lim is not None:  # off the scale: a small arrow at the top
+            cx = x + bw / 2
+            parts.append(f'<path d="M{cx - 3:.1f} {T + 5} L{cx:.1f} {T} L{cx + 3:.1f} {T + 5}" class="lim up"/>')
+        if r["order"] in (3, 5, 7, 9, 15, 21, 29, 39):
+            parts.append(
+                f'<text x="{x + bw / 2:.1f}" y="{H - B + 12}" class="tk" text-anchor="middle">{r["order"]}</text>'
+            )
+    parts.append(
+        f'<line x1="{L}" y1="{H - B}" x2="{W - R}" y2="{H - B}" class="ax"/>'
+        f'<line x1="{L}" y1="{T}" x2="{L}" y2="{H - B}" class="ax"/>'
+        f'<text x="{L - 4}" y="{T + 8}" class="tk" text-anchor="end">{top:.0f} %</text>'
+        f'<text x="{L - 4}" y="{H - B}" class="tk" text-anchor="end">0</text>'
+        f'<text x="{(L + W) / 2:.0f}" y="{H - 2}" class="tk" text-anchor="middle">harmonic order</text>'
+    )
+    return (
+        f'<figure class="lb-fig"><svg viewBox="0 0 {W} {H}" role="img" '
+        'aria-label="Line-current harmonics against the limits">'
+        "<style>.ax{stroke:currentColor}.tk{font:10px sans-serif;fill:currentColor}.bar{fill:#c8780a}"
+        ".over{fill:#b3261e}.lim{stroke:#26323a;stroke-width:2;fill:none}.up{stroke-width:1.5}</style>"
+        + "".join(parts)
+        + "</svg><figcaption>Line current at nominal mains, orders 2 to 40 as % of the fundamental (bars; red: over "
+        "its limit); dark ticks: the IEC 61000-3-2 limit for the declared class (an arrow at the top where "
+        "it is off the scale; no tick: no limit).</figcaption></figure>"
+    )
+
+
+def mains_quality_section(d: Design, ans: dict[str, Any]) -> str:
+    out = ["<h2>What it draws from the mains</h2>"]
+    if d.is_cv:
+        out.append(f"<p>{_e(ans.get('mains_note', ''))}</p>")
+        return "\n".join(out)
+    corners = ("low", "nominal", "high")
+    rows: list[tuple[str, Any]] = [
+        ("THD (orders 2-40)", lambda p: _pct(p["thd"])),
+        ("Displacement power factor", lambda p: f"{p['displacement_pf']:.3f}"),
+        ("Distortion power factor", lambda p: f"{p['distortion_pf']:.3f}"),
+        ("Power factor", lambda p: f"{p['power_factor']:.3f}"),
+        ("Active power", lambda p: cell(p["input_power_W"], "power")),
+        ("Apparent power", lambda p: cell(p["apparent_power_VA"], "va")),
+        (
+            "Reactive power (fundamental)",
+            lambda p: (
+                cell(abs(p["reactive_power_var"]), "power")[:-1]
+                + "var "
+                + ("leading" if p["reactive_leading"] else "lagging")
+            ),
+        ),
+        ("3rd harmonic", lambda p: _pct(p["harmonics"][2]["current_A"] / p["harmonics"][0]["current_A"])),
+        ("5th harmonic", lambda p: _pct(p["harmonics"][4]["current_A"] / p["harmonics"][0]["current_A"])),
+        ("IEC 61000-3-2", lambda p: "pass" if p["harmonic_pass"] else "over a limit"),
+    ]
+    out.append(
+        _table(
+            ["", "low mains", "nominal", "high mains"],
+            [[_e(lab)] + [_e(fn(ans[c])) for c in corners] for lab, fn in rows],
+        )
+    )
+    out.append(spectrum_chart(ans["nominal"]["harmonics"]))
+    notes = list(dict.fromkeys(n for c in corners for n in ans[c]["harmonic_notes"]))
+    n = ans["nominal"]
+    bands = list(dict.fromkeys(ans[c]["harmonic_band"] for c in corners))
+    out.append(f"<p>Judged as: {_e('; '.join(bands))}. {_e(RULES[n['harmonic_class']])}</p>")
+    out.append(
+        f"<p class='lb-small'>Spectrum from the solver's exact waveform on {n['spectrum_samples_per_period']} "
+        "points per period; class from the design file's <code>[emissions] class</code> "
+        f"(here {_e(n['harmonic_class'])}). Limits: IEC 61000-3-2:2018+A1:2020 as reproduced in secondary "
+        "copies; check against the standard. The review's check judges every corner and step.</p>"
+    )
+    if notes:
+        out.append("<ul>" + "".join(f"<li>{_e(x)}</li>" for x in notes) + "</ul>")
+    g = ans.get("generator")
+    if g:
+        out.append(
+            f"<p><strong>On a generator:</strong> up to "
+            f"{_e(cell(g['leading_reactive_power_var'], 'power')[:-1])}var leading per fixture. {_e(g['note'])}</p>"
+        )
+    return "\n".join(out)
+
+
+def light_section(d: Design, ans: dict[str, Any]) -> str:
+    li = ans.get("light") or {}
+    out = ["<h2>Light</h2>", f"<p class='lb-small'>Model: {_e(li.get('model', ''))}.</p>"]
+    if li.get("flux_lm") is None:
+        return "\n".join(out)
+    label = "supply" if d.is_cv else "mains"
+    out.append(
+        _table(
+            ["", f"low {label}", "nominal", f"high {label}"],
+            [
+                ["Luminous flux"] + [_e(cell(ans[c]["flux_lm"], "luminous_flux")) for c in ("low", "nominal", "high")],
+                ["Efficacy" + (" (at the supply output)" if d.is_cv else " (at the mains)")]
+                + [_e(cell(ans[c]["efficacy_lm_per_W"], "efficacy")) for c in ("low", "nominal", "high")],
+            ],
+        )
+    )
+    if li.get("steps"):
+        out.append("<h3>Each brightness step (nominal mains)</h3>")
+        out.append(
+            _table(
+                ["dropper", "flux", "input power", "efficacy"],
+                [
+                    [
+                        _e(fv(s["capacitance_F"], "capacitance")),
+                        _e(cell(s["flux_lm"], "luminous_flux")),
+                        _e(cell(s["input_power_W"], "power")),
+                        _e(cell(s["efficacy_lm_per_W"], "efficacy")),
+                    ]
+                    for s in li["steps"]
+                ],
+            )
+        )
+    b = li["beam"]
+    rows = [
+        ["Beam (full angle)", _e(f"{b['beam_angle_deg']:g}°"), ""],
+        ["Distance", _e(fv(b["distance_m"], "length")), _e(f"{b['distance_ft']:.3g} ft")],
+        ["Intensity (uniform cone)", _e(f"{b['intensity_cd']:.4g} cd"), ""],
+        [
+            "Illuminance on axis (uniform cone)",
+            _e(cell(b["illuminance_axis_lx"], "illuminance")),
+            _e(f"{b['illuminance_axis_fc']:.3g} fc"),
+        ],
+    ]
+    if "field_diameter_m" in b:
+        rows += [
+            [
+                "Field diameter",
+                _e(fv(b["field_diameter_m"], "length")),
+                _e(f"{b['field_diameter_ft']:.3g} ft"),
+            ],
+            [
+                "Average over the field (flat disc)",
+                _e(cell(b["illuminance_average_lx"], "illuminance")),
+                _e(f"{b['illuminance_average_fc']:.3g} fc"),
+            ],
+        ]
+    out.append(_table(["at nominal", "metric", "imperial"], rows))
+    out.append(
+        "<p class='lb-small'>Point source, all the lumens in the beam, target square to the axis. The "
+        "uniform cone gives the centre; the flat disc spreads the lumens evenly over the lit circle. Real "
+        "beams fall off towards the edge: measure with a meter for anything that matters.</p>"
+    )
+    return "\n".join(out)
+
+
+def shutter_chart(sweep: list[list[float]], threshold: float) -> str:
+    """Exposure variation against shutter time, log time axis."""
+    if len(sweep) < 2:
+        return ""
+    W, H, L, B, T, R = 360, 170, 44, 28, 10, 8
+    t0, t1 = sweep[0][0], sweep[-1][0]
+    top = max(max(v for _, v in sweep), threshold) * 1.1 or 0.01
+
+    def x(t: float) -> float:
+        return L + (W - L - R) * math.log(t / t0) / math.log(t1 / t0) if t1 > t0 else L
+
+    def y(v: float) -> float:
+        return H - B - (H - B - T) * v / top
+
+    pts = " ".join(f"{x(t):.1f},{y(v):.1f}" for t, v in sweep)
+    ty = y(threshold)
+    return (
+        f'<figure class="lb-fig"><svg viewBox="0 0 {W} {H}" role="img" '
+        'aria-label="Frame-to-frame exposure variation against shutter time">'
+        "<style>.ax{stroke:currentColor}.tk{font:10px sans-serif;fill:currentColor}"
+        ".th{stroke:#b3261e;stroke-dasharray:4 3}</style>"
+        f'<line x1="{L}" y1="{H - B}" x2="{W - R}" y2="{H - B}" class="ax"/>'
+        f'<line x1="{L}" y1="{T}" x2="{L}" y2="{H - B}" class="ax"/>'
+        f'<line x1="{L}" y1="{ty:.1f}" x2="{W - R}" y2="{ty:.1f}" class="th"/>'
+        f'<polyline points="{pts}" fill="none" stroke="#c8780a" stroke-width="1.8"/>'
+        f'<text x="{L - 4}" y="{T + 8}" class="tk" text-anchor="end">{100 * top:.3g} %</text>'
+        f'<text x="{L - 4}" y="{H - B}" class="tk" text-anchor="end">0</text>'
+        f'<text x="{L}" y="{H - B + 12}" class="tk">1/{1 / t0:.0f} s</text>'
+        f'<text x="{W - R}" y="{H - B + 12}" class="tk" text-anchor="end">1/{1 / t1:.4g} s</text>'
+        f'<text x="{(L + W) / 2:.0f}" y="{H - 2}" class="tk" text-anchor="middle">shutter time (log scale)</text>'
+        "</svg><figcaption>Frame-to-frame exposure variation at the worst phase against shutter time, at "
+        "nominal mains; dashed: the threshold. It falls to zero at whole ripple periods.</figcaption></figure>"
+    )
+
+
+def camera_section(d: Design, ans: dict[str, Any]) -> str:
+    c = ans.get("camera") or {}
+    out = ["<h2>On camera</h2>"]
+    if "settings" not in c:
+        out.append(f"<p>{_e(c.get('note', ''))}</p>")
+        return "\n".join(out)
+    fps, thr = c["frame_rate_fps"], c["threshold"]
+    out.append(
+        f"<p>Light ripple at {c['ripple_frequency_Hz']:g} Hz, percent flicker {c['percent_flicker']:.1f} % "
+        f"(IEEE 1789: {_e(c['ieee1789_band'])}). Frame-to-frame exposure variation is the spread of one frame's "
+        "exposure over every phase of the mains against the camera's clock (they are not locked, so every "
+        f"phase comes round); threshold {_pct(thr)} (from the design file's <code>[camera]</code>).</p>"
+    )
+    out.append(f"<h3>At {fps:g} fps</h3>")
+    out.append(
+        _table(
+            ["shutter", "time", "variation", f"≤ {_pct(thr)}"],
+            [
+                [
+                    _e(s["shutter"]),
+                    _e(fv(s["shutter_time_s"], "time")),
+                    _e(_pct(s["variation"], 2)),
+                    "yes" if s["ok"] else "<strong>no</strong>",
+                ]
+                for s in c["design_settings"]
+            ],
+        )
+    )
+    ranges = ", ".join(f"{fv(a, 'time')} to {fv(b, 'time')}" for a, b in c["safe_ranges_s"]) or "none on the grid"
+    mult = ", ".join(fv(t, "time") for t in c["ripple_multiples_s"])
+    out.append(
+        f"<p>Shutter times under the threshold (1/8000 s to one frame): {_e(ranges)}. Zero variation at whole "
+        f"ripple periods: {_e(mult) or 'none within one frame'}.</p>"
+    )
+    out.append(shutter_chart(c["sweep"], thr))
+    out.append("<h3>Common frame rates at 180°</h3>")
+    out.append(
+        _table(
+            ["frame rate", "shutter", "variation", "shows at", f"≤ {_pct(thr)}"],
+            [
+                [
+                    _e(f"{s['frame_rate_fps']:g} fps"),
+                    _e(s["shutter"]),
+                    _e(_pct(s["variation"], 2)),
+                    _e(f"{s['beat_Hz']:.3g} Hz"),
+                    "yes" if s["ok"] else "<strong>no</strong>",
+                ]
+                for s in c["settings"]
+            ],
+        )
+    )
+    out.append(
+        "<p class='lb-small'>'Shows at' is the ripple folded about the nearest multiple of the frame rate: "
+        "0 Hz means the phase only drifts with the mains frequency, so the change comes slowly. Rolling "
+        "shutters also show the ripple as bands across one frame; this figure is the whole-frame exposure.</p>"
+    )
+    return "\n".join(out)

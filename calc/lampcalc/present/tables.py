@@ -265,6 +265,7 @@ def checks() -> Table:
         "wire.N": "each wire run: current against its table, drop against the limit",
         "ballast.power": "ballast dissipation (CV designs)",
         "ballast.headroom": "headroom across the ballast (CV designs)",
+        "harmonics.iec61000_3_2": "line-current harmonics against IEC 61000-3-2 for the declared class",
     }
     return Table(
         "Design review checks",

@@ -145,6 +145,40 @@ DIMENSIONS: dict[str, Dimension] = {
             forms=("20 °C/W",),
         ),
         Dimension("count", "", "4", (), (), plain_ok=True, use_prefixes=False),
+        # light and camera
+        Dimension("luminous_flux", "lm", "120 lm", ("lm",), forms=("1.2 klm", "120lm")),
+        Dimension("illuminance", "lx", "500 lx", ("lx",), (("fc", 1 / FOOT**2),), forms=("50 fc", "1 klx")),
+        Dimension("efficacy", "lm/W", "120 lm/W", ("lm/W",), forms=("95lm/W",)),
+        Dimension("luminous_intensity", "cd", "1000 cd", ("cd",), forms=("1 kcd",)),
+        Dimension(
+            "angle",
+            "°",
+            "30°",
+            (),
+            (("°", 1.0), ("deg", 1.0)),
+            plain_ok=True,
+            use_prefixes=False,
+            forms=("180 deg", "172.8°"),
+        ),
+        Dimension(
+            "per_kelvin",
+            "/K",
+            "0.3 %/K",
+            (),
+            (("%/K", 0.01), ("%/°C", 0.01), ("/K", 1.0), ("1/K", 1.0)),
+            use_prefixes=False,
+            forms=("0.3 %/°C", "-0.002 /K"),
+        ),
+        Dimension(
+            "frame_rate",
+            "fps",
+            "24 fps",
+            (),
+            (("fps", 1.0), ("Hz", 1.0)),
+            plain_ok=True,
+            use_prefixes=False,
+            forms=("23.976 fps", "50 Hz"),
+        ),
     )
 }
 
