@@ -551,6 +551,7 @@ class SteadyState:
     waveform: dict[str, tuple[float, ...]]
     iterations: int
     steps: int
+    start: Vec = (0.0, 0.0)  # the state at t = 0 (a warm start for a nearby circuit)
 
 
 def initial_state(c: Circuit) -> Vec:
@@ -587,7 +588,9 @@ def initial_state(c: Circuit) -> Vec:
     return (vcd, vb)
 
 
-def solve(c: Circuit, points: int = 600, wave_points: int = 200) -> SteadyState:
+def solve(c: Circuit, points: int = 600, wave_points: int = 200, start: Vec | None = None) -> SteadyState:
+    """The periodic steady state. ``start`` is an optional warm start (the
+    state at t = 0 of a nearby circuit); Newton converges to the same answer."""
     sol = Solver(c)
     a0 = c.bridge.threshold()
     if c.strings and min(s.knee for s in c.strings) >= sol.vpk - a0:
@@ -597,7 +600,7 @@ def solve(c: Circuit, points: int = 600, wave_points: int = 200) -> SteadyState:
             f"a string knee below the mains peak less the bridge drop ({sol.vpk - a0:.4g} V)",
             "no conduction: the LED strings need more than the mains peak",
         )
-    x0 = sol.solve(initial_state(c))
+    x0 = sol.solve(start if start is not None else initial_state(c))
     _, _, segs = sol.half_period(x0, record=True)
     return _measure(sol, segs, points, wave_points)
 
@@ -720,6 +723,7 @@ def _measure(sol: Solver, segs: list[tuple[float, float, Mode, Vec]], n: int, nw
         },
         iterations=sol.iterations,
         steps=sol.steps,
+        start=segs[0][3] if segs else (0.0, 0.0),
     )
 
 

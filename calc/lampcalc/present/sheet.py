@@ -104,10 +104,7 @@ def bom(d: Design, ans: dict[str, Any]) -> list[list[str]]:
             f"LED module × {s * p}",
             _e(mod.name or "module"),
             f"{s} in series × {p} strings",
-            (
-                f"{fv(mod.current_max, 'current')} max; "
-                f"runs {fv(nominal.get('string_current_avg_A', 0.0), 'current')}"
-            ),
+            (f"{fv(mod.current_max, 'current')} max; runs {fv(nominal.get('string_current_avg_A', 0.0), 'current')}"),
         ]
     )
     if arr.ballast > 0:
@@ -225,7 +222,8 @@ def bom(d: Design, ans: dict[str, Any]) -> list[list[str]]:
                 "Switch",
                 fv(sw.rating, "current"),
                 f"inrush {fv(sw.surge_rating, 'current') if sw.surge_rating else '—'}",
-                f"≥ {fv(_need('switch.rating', line), 'current')} rms; inrush ≥ {fv(ans['switch_on_peak_A'], 'current')}",
+                f"≥ {fv(_need('switch.rating', line), 'current')} rms; "
+                f"inrush ≥ {fv(ans['switch_on_peak_A'], 'current')}",
             ]
         )
     return rows
