@@ -132,7 +132,7 @@ def test_more_source_impedance_lowers_the_peak() -> None:
 
 # --- ngspice --------------------------------------------------------------------------------------
 
-SPICE_DESIGNS = ("panel-230", "unsafe-demo")
+SPICE_DESIGNS = ("panel-230", "worklight-120", "unsafe-demo")
 
 
 def rel(a: float, b: float) -> float:

@@ -115,8 +115,13 @@ def test_bleeder_boundary_IEC60335_1_cl22_5() -> None:
 
 
 def test_bridge_surge_boundary_common_practice(base: dict[str, object]) -> None:
+    # with no supply impedance the time-domain run meets the closed form S16, I = (Vpk - drop) / R
+    stiff = check(parse_design(with_(mains__source_resistance='"0 Ω"', mains__source_inductance='"0 H"')))
+    closed = (math.sqrt(2) * 253 - 1.7) / (100 + 0.16 + 0.15)
+    assert float(stiff["switch_on_peak_A"]) == pytest.approx(closed, rel=2e-3)
+    # the reference supply impedance (IEC TR 60725, 0.4 Ω + j0.25 Ω) lowers it
     peak = float(base["switch_on_peak_A"])  # type: ignore[arg-type]
-    assert peak == pytest.approx((math.sqrt(2) * 253 - 1.7) / (100 + 0.16 + 0.15), rel=1e-9)  # S16: Vpk / R
+    assert peak < closed
     assert status(with_(bridge__surge_rating=f'"{2.01 * peak} A"'), "bridge.surge")[0] == "pass"
     assert status(with_(bridge__surge_rating=f'"{0.99 * peak} A"'), "bridge.surge")[0] == "fail"
 

@@ -61,15 +61,16 @@ class Bridge:
     def threshold(self) -> float:
         return 2 * self.drop if self.kind == "line" else 0.0
 
-    def chords(self, i_max: float) -> tuple[tuple[float, float, float], ...]:
-        """(start current, a, r) with pair drop = a + r I from each start on."""
+    def chords(self, i_max: float, ratio: float = 1.6) -> tuple[tuple[float, float, float], ...]:
+        """(start current, a, r) with pair drop = a + r I from each start on;
+        successive chord ends ``ratio`` apart in current."""
         if self.kind == "line":
             return ((0.0, 2 * self.drop, 2 * self.resistance),)
         pts = [0.0]
         i = 1e-7
         while i < i_max * 4:
             pts.append(i)
-            i *= 1.6
+            i *= ratio
         pts.append(i)
         out = []
         for k in range(len(pts) - 1):

@@ -75,6 +75,54 @@ def _table(headers: list[str], rows: list[list[str]], cls: str = "") -> str:
 # --- bill of materials ----------------------------------------------------------------
 
 
+def switch_on_html(ans: dict[str, Any]) -> str:
+    """The switch-on figures: peak, I²t, closing phase and the step relay."""
+    so = ans.get("switch_on")
+    if not so:
+        return ""
+    corner = ", ".join(f"{k} {v}" for k, v in so["corner"].items())
+    text = (
+        "<p>Switch-on from the discharged state, closing at "
+        f"{so['phase_deg']:g}° of the mains ({_e(corner)}), through the supply impedance "
+        f"{_e(fv(so['source_resistance_ohm'], 'resistance'))} + {_e(fv(so['source_inductance_H'], 'inductance'))}: "
+        f"<strong>{_e(fv(so['peak_A'], 'current'))}</strong> peak after "
+        f"{_e(fv(so['time_of_peak_s'], 'time'))}, I²t {so['i2t_A2s']:.3g} A²s over the first half period, "
+        f"{_e(fv(so['resistor_energy_J'], 'energy'))} in the series resistor."
+    )
+    st = so.get("step_switching") or {}
+    if st:
+        text += (
+            f" Closing the {_e(fv(st['added_F'], 'capacitance'))} step onto the charged "
+            f"{_e(fv(st['charged_F'], 'capacitance'))} ({_e(fv(st['delta_V'], 'voltage'))}): "
+            f"<strong>{_e(fv(st['peak_A'], 'current'))}</strong> peak in the step relay, "
+            f"I²t {st['i2t_A2s']:.3g} A²s."
+        )
+    return text + "</p>"
+
+
+def fault_rows(ans: dict[str, Any]) -> list[list[str]]:
+    """One row per single fault."""
+    rows = []
+    for f in ans.get("faults", []):
+        over = "; ".join(
+            f"{o['part']} ({o['check']}): {o['value']:.3g} against {o['rating']:.3g} {o['unit']}, {o['consequence']}"
+            for o in f["over_rating"]
+        )
+        fuse = f"clears within {f['fuse_time_s']:.3g} s" if f["fuse_clears"] else "does not clear"
+        notes = " ".join(f.get("notes", []))
+        rows.append(
+            [
+                f"<code>{_e(f['id'])}</code><br>{_e(f['description'])}",
+                f'<span class="lb-st lb-{"fail" if f["outcome"] == "hazard" else "pass"}">'
+                f"{_e(f['outcome'].upper())}</span>",
+                _e(fuse),
+                _e(over or "nothing over its rating") + (f"<br>{_e(notes)}" if notes else ""),
+                _e(" → ".join(f["leads_to"])) or "—",
+            ]
+        )
+    return rows
+
+
 def corner_rows(ans: dict[str, Any]) -> list[list[str]]:
     """One row per stress: its worst value and the corner that gives it."""
     kinds = {"A": "current", "V": "voltage", "W": "power"}
@@ -534,11 +582,9 @@ def render(d: Design, ans: dict[str, Any], study: dict[str, Any] | None) -> str:
     if ans.get("waveform"):
         out.append(waveform(ans["waveform"]))
     if not d.is_cv:
+        out.append(switch_on_html(ans))
         out.append(
-            "<p>Switch-on at the crest, high mains: "
-            f"<strong>{_e(fv(ans['switch_on_peak_A'], 'current'))}</strong> peak, "
-            f"{_e(fv(ans['switch_on_energy_J'], 'energy'))} in the series resistor. "
-            "Every string open: the bus climbs to "
+            "<p>Every string open: the bus climbs to "
             f"<strong>{_e(fv(ans['open_load_bus_V'], 'voltage'))}</strong> "
             f"(time constant {_e(fv(ans['open_load_time_constant_s'], 'time'))}).</p>"
         )
@@ -562,6 +608,14 @@ def render(d: Design, ans: dict[str, Any], study: dict[str, Any] | None) -> str:
     if ans.get("corners"):
         out.append("<h2>Worst corners</h2>")
         out.append(_table(["stress", "worst value", "at"], corner_rows(ans)))
+    if ans.get("faults"):
+        out.append("<h2>Single faults</h2>")
+        out.append(
+            "<p>Each fault applied alone (IEC 60598-1 abnormal conditions, IEC 61347-1 fault conditions: the "
+            "standards decide; this is a design aid). <em>Hazard</em>: a part over its rating while the fuse does "
+            "not clear in time, or one failure leading to the next.</p>"
+        )
+        out.append(_table(["fault", "outcome", "fuse", "over rating", "leads to"], fault_rows(ans)))
     out.append("<h2>Bill of materials</h2>")
     out.append(_table(["part", "value", "declared", "required"], bom(d, ans)))
     wires = wiring(d, ans)

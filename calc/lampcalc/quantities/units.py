@@ -64,7 +64,12 @@ DIMENSIONS: dict[str, Dimension] = {
         Dimension("energy", "J", "50 mJ", ("J",)),
         Dimension("inductance", "H", "0.8 mH", ("H",)),
         Dimension(
-            "i2t", "A²s", "0.25 A²s", (), (("A²s", 1.0), ("A2s", 1.0), ("A^2s", 1.0), ("A^2 s", 1.0)), use_prefixes=False
+            "i2t",
+            "A²s",
+            "0.25 A²s",
+            (),
+            (("A²s", 1.0), ("A2s", 1.0), ("A^2s", 1.0), ("A^2 s", 1.0)),
+            use_prefixes=False,
         ),
         Dimension("time", "s", "1 s", ("s", "sec"), (("min", 60.0), ("h", 3600.0))),
         Dimension("length", "m", "3.5 m", ("m",), (("ft", FOOT), ("'", FOOT), ("in", INCH), ('"', INCH))),
