@@ -269,3 +269,26 @@ def test_no_interior_point_is_worse_than_the_reported_corner(
                 assert x <= ref * (1 + 1e-6) + 1e-12, (stress.name, u, x, ref)
             else:
                 assert x >= ref * (1 - 1e-6) - 1e-12, (stress.name, u, x, ref)
+
+
+def test_bridge_thermal_uses_internal_ambient_with_a_band() -> None:
+    # T_j = T_a + P θja (datasheet thermal model); 25 K below T_j,max as margin: common practice
+    base = (DEMO / "panel-230.toml").read_text()
+    ans = check(parse_design(base))
+    p = one(ans, "bridge.thermal")["values"]["dissipation_W"]  # type: ignore[index]
+    for inner, theta, expect in (
+        (60.0, (150 - 25 - 60) / p * 0.99, "pass"),
+        (60.0, (150 - 25 - 60) / p * 1.01, "warn"),
+        (60.0, (150 - 60) / p * 1.01, "fail"),
+    ):
+        text = base.replace('ambient = "35 °C"', f'ambient = "35 °C"\ninternal_ambient = "{inner} °C"').replace(
+            'theta_ja = "65 K/W"', f'theta_ja = "{theta} K/W"'
+        )
+        chk = one(check(parse_design(text)), "bridge.thermal")
+        assert chk["status"] == expect, (theta, chk["message"])
+        assert chk["values"]["ambient_C"] == inner  # type: ignore[index]
+
+
+def test_internal_ambient_defaults_ten_kelvin_above_the_room() -> None:
+    d = parse_design((DEMO / "panel-230.toml").read_text())
+    assert d.internal_ambient == d.ambient + 10.0
