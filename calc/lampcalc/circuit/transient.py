@@ -232,7 +232,7 @@ def switch_on(c: Circuit, supply: Supply, phase_deg: float = 90.0, steps: int = 
             ym = run.step(key, x, h / 2)
             simpson = h / 6 * (x[0] ** 2 + 4 * ym[0] ** 2 + y[0] ** 2)
             trapezoid = h / 4 * (x[0] ** 2 + 2 * ym[0] ** 2 + y[0] ** 2)
-            if abs(simpson - trapezoid) > 1e-4 * simpson + 1e-15:
+            if abs(simpson - trapezoid) > 1e-2 * simpson + 1e-15:  # Simpson is then within 1e-4 of the step
                 simpson = _i2t_fine(run, key, x, h)  # a sharp piece inside the step: integrate it finely
             i2t += simpson
             for tt, v in ((t + h / 2, ym[0]), (t + h, y[0])):
