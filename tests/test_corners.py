@@ -312,3 +312,10 @@ def test_cli_exit_codes_for_no_light_and_bad_steps() -> None:
     bad = run("steps-disagree")
     assert bad.returncode == 2
     assert "dropper.capacitance" in bad.stderr and "4.7 µF" in bad.stderr and "Traceback" not in bad.stderr
+
+
+def test_schematic_labels_the_dropper_with_its_declared_class() -> None:
+    from lampcalc.present.sheet import schematic
+
+    svg = schematic(parse_design((HERE / "motor-run.toml").read_text()))
+    assert "motor-run" in svg and " X2<" not in svg

@@ -393,7 +393,9 @@ def schematic(d: Design) -> str:
         )
         if dr.get("capacitance"):
             parts.append(f'<rect x="{200 - 4}" y="{top - 14}" width="8" height="28" class="gap"/>')
-            parts.append(_cap_h(200, top, fv(float(dr["capacitance"]), "capacitance") + " X2"))
+            parts.append(
+                _cap_h(200, top, fv(float(dr["capacitance"]), "capacitance") + f" {dr.get('class') or 'class ?'}")
+            )
             if dr.get("bleeder"):
                 parts.append(
                     f'<path d="M180 {top} V{top - 34} H220 V{top}" class="wire"/>'
