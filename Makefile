@@ -47,10 +47,11 @@ serve: build
 	@echo "Serving the handbook on http://127.0.0.1:$(PORT)/"
 	$(BIN)/python -m http.server $(PORT) --bind 127.0.0.1 --directory site
 
-lint: $(DEPS)
+lint: $(DEPS) $(NODE)
 	$(BIN)/ruff check calc lampbook tests bench
 	$(BIN)/ruff format --check calc lampbook tests bench
 	$(BIN)/mypy
+	node_modules/.bin/eslint --max-warnings 0 .
 
 test: $(DEPS) $(NODE) $(SYSTEM) $(WHEELS) lint
 	$(BIN)/python -m pytest

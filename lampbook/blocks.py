@@ -11,7 +11,34 @@ from lampcalc.api import compute
 from lampcalc.calculators import CALCULATORS
 from lampcalc.schema import describe, region_presets
 
-FENCE = re.compile(r"^(?P<indent>[ \t]*)```(?P<word>[\w-]+)[ \t]*\n(?P<body>.*?)^(?P=indent)```[ \t]*$", re.S | re.M)
+# An opening fence as Markdown reads one: at most three spaces of indent (four make an
+# indented code block), three or more backticks or tildes, then the info word.
+_OPEN = re.compile(r"^(?P<indent> {0,3})(?P<mark>`{3,}|~{3,})[ \t]*(?P<word>[^\s`]*)[^`]*$")
+
+
+def fenced_blocks(markdown: str) -> list[tuple[int, int, str, str]]:
+    """Top-level fenced code blocks as ``(first_line, end_line, word, body)``
+    (end exclusive). A fence inside another fence or inside an indented code
+    block is content, not a block: an example of a calculator block in a page
+    stays an example."""
+    lines = markdown.split("\n")
+    out = []
+    i = 0
+    while i < len(lines):
+        line = lines[i]
+        m = _OPEN.match(line)
+        if m is None:
+            i += 1
+            continue
+        mark = m.group("mark")
+        close = re.compile(rf"^ {{0,3}}{re.escape(mark[0])}{{{len(mark)},}}[ \t]*$")
+        j = i + 1
+        while j < len(lines) and not close.match(lines[j]):
+            j += 1
+        if j < len(lines):
+            out.append((i, j + 1, m.group("word"), "\n".join(lines[i + 1 : j]) + "\n"))
+        i = j + 1
+    return out
 
 
 class BlockError(ValueError):
@@ -201,17 +228,21 @@ OPEN_DESIGN = (
 
 def replace_blocks(markdown: str, fence: str, safety_url: str | None) -> tuple[str, int]:
     count = 0
-
-    def sub(m: re.Match[str]) -> str:
-        nonlocal count
-        word = m.group("word")
+    lines = markdown.split("\n")
+    out: list[str] = []
+    pos = 0
+    for start, end, word, body in fenced_blocks(markdown):
         if word not in (fence, fence + "-table", fence + "-open"):
-            return m.group(0)
+            continue
         count += 1
         if word == fence + "-table":
-            return "\n" + render_table(count, m.group("body")) + "\n"
-        if word == fence + "-open":
-            return "\n" + OPEN_DESIGN + "\n"
-        return "\n" + render(parse_block(count, m.group("body")), safety_url) + "\n"
-
-    return FENCE.sub(sub, markdown), count
+            html = render_table(count, body)
+        elif word == fence + "-open":
+            html = OPEN_DESIGN
+        else:
+            html = render(parse_block(count, body), safety_url)
+        out += lines[pos:start]
+        out += ["", html, ""]
+        pos = end
+    out += lines[pos:]
+    return "\n".join(out), count

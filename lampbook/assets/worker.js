@@ -14,7 +14,7 @@ const ready = (async () => {
   try {
     api = py.pyimport("lampcalc.api");
   } catch (e) {
-    throw new Error("the core did not install: " + (problems.join("; ") || String(e)));
+    throw new Error("the core did not install: " + (problems.join("; ") || String(e)), { cause: e });
   }
   return true;
 })();

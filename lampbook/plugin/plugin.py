@@ -6,10 +6,13 @@ from __future__ import annotations
 import json
 import shutil
 from pathlib import Path
-from typing import Any
 
+from mkdocs.config.defaults import MkDocsConfig
 from mkdocs.exceptions import PluginError
-from mkdocs.plugins import BasePlugin, get_plugin_logger
+from mkdocs.plugins import BasePlugin, event_priority, get_plugin_logger
+from mkdocs.structure.files import File, Files
+from mkdocs.structure.pages import Page
+from mkdocs.utils import get_relative_url
 
 from .. import blocks, bundle
 from .config import LampbookConfig
@@ -28,7 +31,7 @@ SITE_ASSETS = (
 
 
 class LampbookPlugin(BasePlugin[LampbookConfig]):  # type: ignore[no-untyped-call]  # as above
-    def on_config(self, config: Any) -> Any:
+    def on_config(self, config: MkDocsConfig) -> MkDocsConfig:
         if not self.config.enabled:
             return config
         config.extra_css.append("assets/lampbook/lampbook.css")
@@ -37,14 +40,12 @@ class LampbookPlugin(BasePlugin[LampbookConfig]):  # type: ignore[no-untyped-cal
         s = ExtraScriptValue("assets/lampbook/widget.js")
         s.type = "module"
         config.extra_javascript.append(s)
-        self._safety: str | None = None
+        self._safety: File | None = None
         return config
 
-    def on_files(self, files: Any, config: Any) -> Any:
-        self._safety = "safety.md" if files.get_file_from_path("safety.md") else None
+    def on_files(self, files: Files, config: MkDocsConfig) -> Files:
+        self._safety = files.get_file_from_path("safety.md")
         if self.config.enabled and self.config.designs:
-            from mkdocs.structure.files import File
-
             from ..sheets import SheetError, sheet_pages
 
             try:
@@ -56,14 +57,12 @@ class LampbookPlugin(BasePlugin[LampbookConfig]):  # type: ignore[no-untyped-cal
                     files.append(File.generated(config, src_uri, content=text))
         return files
 
-    def on_page_markdown(self, markdown: str, page: Any, config: Any, files: Any) -> str:
+    def on_page_markdown(self, markdown: str, /, *, page: Page, config: MkDocsConfig, files: Files) -> str:
         if not self.config.enabled:
             return markdown
         safety = None
-        if self._safety:
-            safety = "../" * page.file.url.count("/") + "safety/"
-            if page.file.src_uri == "safety.md":
-                safety = None
+        if self._safety is not None and page.file.src_uri != self._safety.src_uri:
+            safety = get_relative_url(self._safety.url, page.file.url)
         try:
             out, n = blocks.replace_blocks(markdown, self.config.fence, safety)
         except blocks.BlockError as e:
@@ -72,13 +71,11 @@ class LampbookPlugin(BasePlugin[LampbookConfig]):  # type: ignore[no-untyped-cal
             log.debug("%s: %d calculator blocks", page.file.src_uri, n)
         return out
 
-    def on_post_page(self, output: str, page: Any, config: Any) -> str:
+    def on_post_page(self, output: str, /, *, page: Page, config: MkDocsConfig) -> str:
         if not self.config.enabled:
             return output
-        base = "../" * page.url.count("/") if page.url else ""
-        site_json = json.dumps(
-            {"root": base or "./", "timeout": self.config.load_timeout, "engine": self.config.engine}
-        )
+        base = get_relative_url(".", page.url).rstrip("/") + "/"
+        site_json = json.dumps({"root": base, "timeout": self.config.load_timeout, "engine": self.config.engine})
         meta = (
             f'<link rel="manifest" href="{base}manifest.webmanifest">'
             f'<meta name="theme-color" content="#26323a">'
@@ -86,7 +83,9 @@ class LampbookPlugin(BasePlugin[LampbookConfig]):  # type: ignore[no-untyped-cal
         )
         return output.replace("</head>", meta + "</head>", 1)
 
-    def on_post_build(self, config: Any) -> None:
+    # after every other plugin (the search index must exist before the offline precache is listed)
+    @event_priority(-100)
+    def on_post_build(self, *, config: MkDocsConfig) -> None:
         if not self.config.enabled:
             return
         site = Path(config.site_dir)

@@ -13,6 +13,12 @@ for (const w of [...readdirSync(wheels).filter((f) => f.endsWith(".whl")).map((f
 }
 py.FS.mkdirTree("/work/tests");
 for (const f of ["conftest.py", ...files]) py.FS.writeFile("/work/tests/" + basename(f), new Uint8Array(readFileSync(join(tests, basename(f)))));
+// the demo designs, where the review tests read them (ROOT/docs/designs)
+const designs = join(tests, "..", "docs", "designs");
+py.FS.mkdirTree("/work/docs/designs");
+for (const f of readdirSync(designs).filter((f) => f.endsWith(".toml"))) {
+  py.FS.writeFile("/work/docs/designs/" + f, new Uint8Array(readFileSync(join(designs, f))));
+}
 py.FS.writeFile("/work/tests/pytest.ini", "[pytest]\nxfail_strict = true\nmarkers =\n    reference: published references\n");
 const code = await py.runPythonAsync(`
 import os, sys
