@@ -294,26 +294,6 @@ def test_internal_ambient_defaults_ten_kelvin_above_the_room() -> None:
     assert d.internal_ambient == d.ambient + 10.0
 
 
-def test_cli_exit_codes_for_no_light_and_bad_steps() -> None:
-    # a design that parses is answered (exit 1 when a check fails); contradictory input is refused (exit 2)
-    import subprocess
-    import sys
-
-    def run(name: str) -> subprocess.CompletedProcess[str]:
-        return subprocess.run(
-            [sys.executable, "-m", "lampbook.cli", "check", str(HERE / f"{name}.toml"), "--json"],
-            capture_output=True,
-            text=True,
-        )
-
-    dark = run("knee-above-low-mains")
-    assert dark.returncode == 1, dark.stderr
-    assert "Traceback" not in dark.stderr
-    bad = run("steps-disagree")
-    assert bad.returncode == 2
-    assert "dropper.capacitance" in bad.stderr and "4.7 µF" in bad.stderr and "Traceback" not in bad.stderr
-
-
 def test_schematic_labels_the_dropper_with_its_declared_class() -> None:
     from lampcalc.present.sheet import schematic
 
