@@ -226,3 +226,69 @@ def test_sheet_escapes_design_text() -> None:
     d = parse_design(BASE.replace('name = "KR flood panel 230"', 'name = "<script>alert(1)</script>"'))
     page = render(d, check(d), None)
     assert "<script>alert" not in page and "&lt;script&gt;" in page
+
+
+# each margin rule at its boundary: just passes, just warns, just fails (sources in the catalogue, named here)
+BOUNDARIES = (
+    # check id, design key, stress in the check's values, unit; source of the margin
+    ("resistor.power", "dropper__resistor_rating", "power_W", "W"),  # 50 % of rating: common practice
+    ("resistor.pulse", "dropper__resistor_pulse_energy", "energy_J", "J"),  # 50 % of the pulse rating: common practice
+    ("ballast.power", "array__ballast_rating", "power_W", "W"),  # 50 %: common practice
+    ("smoothing.ripple_current", "smoothing__ripple_rating", "ripple_rms_A", "A"),  # 80 %: common practice
+    ("smoothing.working_voltage", "smoothing__voltage_rating", "bus_max_V", "V"),  # 80 %: common practice
+    ("fuse.rating", "fuse__rating", "line_rms_A", "A"),  # 75 %: fuse-selection guidance (secondary copy)
+    ("fuse.i2t", "fuse__i2t", "i2t_A2s", "A²s"),  # a third of pre-arcing I²t: common practice (Q5)
+    ("bridge.i2t", "bridge__i2t", "i2t_A2s", "A²s"),  # half: common practice
+    ("bridge.average", "bridge__average_rating", "average_A", "A"),  # 80 % capacitive-load derating
+    ("dropper.step_relay", "dropper__step_relay_rating", "peak_A", "A"),  # the relay's inrush rating
+    ("bleeder.smoothing_rating", "smoothing__bleeder_rating", "power_each_W", "W"),  # 50 %: common practice
+    ("bleeder.dropper_rating", "dropper__bleeder_rating", "power_each_W", "W"),  # 50 %: common practice
+)
+
+
+def test_margin_rules_at_their_boundaries(base: dict[str, object]) -> None:
+    from lampcalc.fixture.rules import RULES
+
+    checks = {c["id"]: c for c in base["checks"]}  # type: ignore[attr-defined]
+    stress = {cid: float(checks[cid]["values"][key]) for cid, _, key, _ in BOUNDARIES}
+
+    def ratings(factor: str) -> dict[str, str]:
+        out = {}
+        for cid, design_key, _, unit in BOUNDARIES:
+            r = RULES[cid]
+            edge = {
+                "pass": stress[cid] / (r.use or r.fail_at) * (1 + 1e-6),
+                "warn": stress[cid] / (r.use or r.fail_at) * (1 - 1e-6),
+                "fail": stress[cid] / r.fail_at * (1 - 1e-6),
+            }[factor]
+            out[design_key] = f'"{edge!r} {unit}"'
+        return out
+
+    for expect in ("pass", "warn", "fail"):
+        ans = check(parse_design(with_(**ratings(expect))))
+        got = {c["id"]: c["status"] for c in ans["checks"]}
+        for cid, *_ in BOUNDARIES:
+            r = RULES[cid]
+            want = "fail" if expect == "warn" and (r.use or r.fail_at) >= r.fail_at else expect
+            assert got[cid] == want, (cid, expect, got[cid])
+
+
+def test_dropper_part_current_and_clamp_power() -> None:
+    # each part of the bank carries its share C_part / C_step of the step's current (circuit theory); 80 % margin
+    hi = check(parse_design(with_(dropper__current_rating='"10 A"')))
+    chk = next(c for c in hi["checks"] if c["id"] == "dropper.current")
+    i = float(chk["values"]["current_rms_A"])
+    top = next(c["value"] for c in hi["corners"] if c["stress"] == "dropper_current_rms_A")
+    # the 1 µF part carries 1/1.47 of the top step's current, and all of the low step's (which may be more)
+    assert top / 1.47 * (1 - 1e-4) <= i < top
+    assert status(with_(dropper__current_rating=f'"{i / 0.8 * 1.000001!r} A"'), "dropper.current")[0] == "pass"
+    assert status(with_(dropper__current_rating=f'"{i * 0.999999!r} A"'), "dropper.current")[0] == "fail"
+    # a declared clamp must take the whole dropper current at open load: P = V_clamp · I_dc (circuit theory)
+    st, ans = status(with_(smoothing__clamp='"150 V"'), "smoothing.clamp")
+    c = next(c for c in ans["checks"] if c["id"] == "smoothing.clamp")  # type: ignore[attr-defined]
+    assert st == "fail" and "crowbar" in c["message"]
+    p = float(c["values"]["power_W"])
+    assert (
+        status(with_(smoothing__clamp='"150 V"', smoothing__clamp_rating=f'"{2.01 * p} W"'), "smoothing.clamp")[0]
+        == "pass"
+    )
