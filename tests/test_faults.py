@@ -187,3 +187,14 @@ def test_smoothing_short_against_ngspice() -> None:
     ref = run_edited(c, {"Cs": "Rshort p x 1e-4"}, periods=20)
     assert ref.led_current_avg < 1e-6  # dark: the strings see no voltage
     assert rel(ours.line_rms, ref.line_current_rms) < 0.01
+
+
+def test_bleeder_open_needs_a_second_path() -> None:
+    # IEC 60335-1 cl. 22.5 (from memory, applied by analogy): 34 V within 1 s at the plug pins, one fault applied
+    text = (DEMO / "panel-230.toml").read_text()
+    two = check(parse_design(text))
+    one = check(parse_design(text.replace("bleeder_paths = 2\n", "bleeder_paths = 1\n")))
+    f2 = next(f for f in two["faults"] if f["id"] == "bleeder.open")
+    f1 = next(f for f in one["faults"] if f["id"] == "bleeder.open")
+    assert f2["outcome"] == "safe" and f1["outcome"] == "hazard"
+    assert f1["over_rating"][0]["check"] == "bleeder.dropper"

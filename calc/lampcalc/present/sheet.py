@@ -207,12 +207,13 @@ def bom(d: Design, ans: dict[str, Any]) -> list[list[str]]:
         )
     if dr.bleeder:
         n = max(dr.bleeder_resistors, math.ceil(stress.get("dropper_voltage_peak_V", vpk) / dr.bleeder_voltage_rating))
-        pw = stress.get("dropper_bleeder_power_W", 0.0) / n
+        pw = stress.get("dropper_bleeder_power_W", 0.0) / n / dr.bleeder_paths
         rows.append(
             [
                 "Dropper bleeder",
                 fv(dr.bleeder, "resistance"),
-                f"{n} in series" if n > 1 else "one part",
+                (f"{n} in series" if n > 1 else "one part")
+                + (f" × {dr.bleeder_paths} paths" if dr.bleeder_paths > 1 else ""),
                 f"≥ {fv(_need('bleeder.dropper_rating', pw), 'power')} each; "
                 f"limiting voltage ≥ {fv(stress.get('dropper_voltage_peak_V', vpk) / n, 'voltage')} each",
             ]
