@@ -299,3 +299,14 @@ def test_schematic_labels_the_dropper_with_its_declared_class() -> None:
 
     svg = schematic(parse_design((HERE / "motor-run.toml").read_text()))
     assert "motor-run" in svg and " X2<" not in svg
+
+
+def test_all_dark_design_is_answered_with_zeros_and_a_failure() -> None:
+    # the knee above the crest at every corner: still a design that parses, so answered (exit 1), shown dark
+    ans = review("all-dark")
+    assert not ans["nominal_conducts"] and not ans["high_conducts"]
+    assert ans["nominal"]["led_current_avg_A"] == 0.0  # type: ignore[index]
+    assert one(ans, "led.light")["status"] == "fail"
+    from lampcalc.present.sheet import render
+
+    assert "led.light" in render(parse_design((HERE / "all-dark.toml").read_text()), ans, None)

@@ -23,9 +23,10 @@ def test_cli_exit_codes_for_no_light_and_bad_steps() -> None:
             timeout=300,
         )
 
-    dark = run("knee-above-low-mains")
-    assert dark.returncode == 1, dark.stderr
-    assert "Traceback" not in dark.stderr
+    for name in ("knee-above-low-mains", "all-dark"):
+        dark = run(name)
+        assert dark.returncode == 1, dark.stderr
+        assert "Traceback" not in dark.stderr
     bad = run("steps-disagree")
     assert bad.returncode == 2
     assert "dropper.capacitance" in bad.stderr and "4.7 µF" in bad.stderr and "Traceback" not in bad.stderr
