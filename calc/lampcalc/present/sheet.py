@@ -194,6 +194,9 @@ def bom(d: Design, ans: dict[str, Any]) -> list[list[str]]:
                 f"{fv(stress.get('dropper_current_rms_A', 0.0), 'current')} rms at its worst corner",
             ]
         )
+    so = ans.get("switch_on") or {}
+    pulse = float(so.get("resistor_energy_J", ans.get("switch_on_energy_J", 0.0)))
+    i2t = float(so.get("i2t_A2s", 0.0))
     if dr.series_resistance > 0:
         p_rs = stress.get("series_resistor_power_W", 0.0)
         rows.append(
@@ -202,7 +205,7 @@ def bom(d: Design, ans: dict[str, Any]) -> list[list[str]]:
                 fv(dr.series_resistance, "resistance"),
                 f"{fv(dr.resistor_rating, 'power') if dr.resistor_rating else '—'}",
                 f"fusible, pulse-rated; ≥ {fv(_need('resistor.power', p_rs), 'power')}; "
-                f"pulse {fv(ans['switch_on_energy_J'], 'energy')}",
+                f"pulse rating ≥ {fv(_need('resistor.pulse', pulse), 'energy')}",
             ]
         )
     if dr.bleeder:
@@ -226,7 +229,8 @@ def bom(d: Design, ans: dict[str, Any]) -> list[list[str]]:
             f"V_RRM {fv(br.vrrm, 'voltage') if br.vrrm else '—'}",
             f"V_RRM ≥ {fv(_need('bridge.vrrm', vpk), 'voltage')}; "
             f"I_F(AV) ≥ {fv(_need('bridge.average', stress.get('bridge_current_avg_A', 0.0)), 'current')}; "
-            f"I_FSM ≥ {fv(_need('bridge.surge', ans['switch_on_peak_A']), 'current')}",
+            f"I_FSM ≥ {fv(_need('bridge.surge', ans['switch_on_peak_A']), 'current')}; "
+            f"I²t ≥ {_need('bridge.i2t', i2t):.3g} A²s",
         ]
     )
     sm = d.smoothing_or()
@@ -261,7 +265,8 @@ def bom(d: Design, ans: dict[str, Any]) -> list[list[str]]:
             "Fuse (line)",
             fv(d.fuse.rating, "current") + f" {_e(d.fuse.kind)}, {_e(d.fuse.standard)}" if d.fuse else "—",
             "",
-            f"≥ {fv(_need('fuse.rating', line), 'current')}; breaking capacity for the supply",
+            f"≥ {fv(_need('fuse.rating', line), 'current')}; pre-arcing I²t ≥ {_need('fuse.i2t', i2t):.3g} A²s; "
+            "breaking capacity for the supply",
         ]
     )
     if d.switch is not None:
