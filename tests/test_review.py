@@ -3,6 +3,7 @@ studies and build sheets. Every limit names its source beside the test."""
 
 from __future__ import annotations
 
+import functools
 import html
 import math
 import re
@@ -36,25 +37,31 @@ def with_(**changes: str) -> str:
     return text
 
 
+@functools.cache
+def reviewed(text: str) -> dict[str, object]:
+    """The review of a design text, once per text (the answers are read, never changed)."""
+    return check(parse_design(text))
+
+
 def status(text: str, cid: str) -> tuple[str, dict[str, object]]:
-    ans = check(parse_design(text))
+    ans = reviewed(text)
     c = next(c for c in ans["checks"] if c["id"] == cid)
     return c["status"], ans
 
 
 @pytest.fixture(scope="module")
 def base() -> dict[str, object]:
-    return check(parse_design(BASE))
+    return reviewed(BASE)
 
 
 def test_demo_designs_are_clean() -> None:
     for name in ("panel-230", "worklight-120", "panel-24v"):
-        ans = check(parse_design((DESIGNS / f"{name}.toml").read_text()))
+        ans = reviewed((DESIGNS / f"{name}.toml").read_text())
         assert ans["failed"] == 0, (name, [c for c in ans["checks"] if c["status"] == "fail"])
 
 
 def test_unsafe_demo_fails_with_reasons() -> None:
-    ans = check(parse_design((DESIGNS / "unsafe-demo.toml").read_text()))
+    ans = reviewed((DESIGNS / "unsafe-demo.toml").read_text())
     failed = {c["id"] for c in ans["checks"] if c["status"] == "fail"}
     expected = {
         "dropper.class",
