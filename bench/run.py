@@ -261,7 +261,7 @@ def review_lines(rev: dict[str, dict[str, float]]) -> list[str]:
         "",
         "## Worst-case review (corners x steps, single faults, switch-on), best of 3",
         "",
-        "| design | whole review, CPython | corners | of which corner survey | faults | switch-on (4 phases) "
+        "| design | whole review, CPython | corners | of which corner survey | faults | switch-on (phase search) "
         "| Pyodide on Node | survey error | same corners |",
         "|---|---|---|---|---|---|---|---|---|",
     ]

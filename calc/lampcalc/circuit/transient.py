@@ -313,15 +313,23 @@ def _refine_peak(
     return peak, t_peak
 
 
-#: Closing phases tried for the worst switch-on (degrees; 90 is the crest).
-PHASES = (60.0, 75.0, 90.0, 105.0)
+#: Closing phases tried for the worst switch-on: the crest, then 15° steps either side while the I²t grows.
+PHASE_STEP = 15.0
 
 
 def worst_switch_on(c: Circuit, supply: Supply, steps: int = 1000) -> Surge:
-    """The closing phase that makes the line I²t worst, on a 15° grid around
-    the crest (crest closing is the usual worst; a large source inductance or
-    a slow RC can move it a little)."""
-    return max((switch_on(c, supply, p, steps) for p in PHASES), key=lambda s: s.i2t)
+    """The closing phase that makes the line I²t worst, by climbing from the
+    crest in 15° steps (between 30° and 150°) while it grows; crest closing is
+    the usual worst, a large source inductance or a slow RC can move it."""
+    runs = {p: switch_on(c, supply, p, steps) for p in (90.0 - PHASE_STEP, 90.0, 90.0 + PHASE_STEP)}
+    best = max(runs.values(), key=lambda s: s.i2t)
+    direction = 0.0 if best.phase_deg == 90.0 else (1.0 if best.phase_deg > 90.0 else -1.0)
+    while direction and 30.0 <= best.phase_deg + direction * PHASE_STEP <= 150.0:
+        nxt = switch_on(c, supply, best.phase_deg + direction * PHASE_STEP, steps)
+        if nxt.i2t <= best.i2t:
+            break
+        best = nxt
+    return best
 
 
 def step_closing(c1: float, c2: float, dv: float, resistance: float, inductance: float) -> tuple[float, float]:
