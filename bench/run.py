@@ -5,7 +5,9 @@
   Newton iterations, and ngspice on the same design in the same run (ratio);
 - the handbook in Debian's Chromium: first paint of the prerendered answer,
   engine ready and first live result, cold and warm, with the byte-compiled
-  standard library and without (ratio); bytes sent on a first visit; build time.
+  standard library and without (ratio); bytes sent on a first visit; build time;
+- handbooks of 50, 100 and 200 invented designs, cold and after one edit, and the
+  parallel review beside the serial one (``catalogue.py``).
 """
 
 from __future__ import annotations
@@ -22,6 +24,7 @@ from pathlib import Path
 
 ROOT = Path(__file__).resolve().parent.parent
 sys.path.insert(0, str(ROOT / "tests"))
+sys.path.insert(0, str(ROOT / "bench"))
 
 from lampcalc.api import compute  # noqa: E402
 from lampcalc.calculators import CALCULATORS  # noqa: E402
@@ -288,6 +291,10 @@ def main() -> None:
     solver = bench_solver()
     browser = bench_browser()
     review = bench_review()
+    from catalogue import bench_catalogue
+    from catalogue import lines as catalogue_lines
+
+    catalogue = bench_catalogue()
     data = {
         "machine": {"python": sys.version.split()[0], "cpus": os.cpu_count()},
         "calculators": calcs,
@@ -296,6 +303,7 @@ def main() -> None:
         "study_pyodide": studies,
         "study_native_s": native,
         "review": review,
+        "catalogue": catalogue,
     }
     (ROOT / "bench" / "results.json").write_text(json.dumps(data, indent=1, sort_keys=True))
     lines = [
@@ -369,6 +377,7 @@ def main() -> None:
         f"{browser['source_stdlib']['build_s']:.1f} s without compiling.",
     ]  # type: ignore[index]
     lines += review_lines(review)
+    lines += ["", *catalogue_lines(catalogue)]
     (ROOT / "bench" / "RESULTS.md").write_text("\n".join(lines) + "\n")
     print("\n".join(lines))
 

@@ -4,7 +4,9 @@ from __future__ import annotations
 
 import argparse
 import json
+import os
 import sys
+from pathlib import Path
 from typing import Any
 
 
@@ -26,6 +28,9 @@ def _errors(errs: list[dict[str, str]], prefix: str) -> int:
 def run_check(args: argparse.Namespace) -> int:
     from lampcalc.design_api import handle
 
+    if len(args.design) > 1 or os.path.isdir(args.design[0]):
+        return run_check_set(args)
+    args.design = args.design[0]
     text = _read(args.design)
     if text is None:
         return 2
@@ -40,6 +45,97 @@ def run_check(args: argparse.Namespace) -> int:
 
         print(check_report(ans))
     return 1 if ans["failed"] else 0
+
+
+def _design_files(paths: list[str]) -> tuple[list[str], int]:
+    """The design files the arguments name (a folder gives its *.toml, in name order), and how many were refused."""
+    out: list[str] = []
+    bad = 0
+    for p in paths:
+        if os.path.isdir(p):
+            found = sorted(str(x) for x in Path(p).glob("*.toml") if x.is_file())
+            if not found:
+                print(
+                    f"lampbook check: DESIGN: got folder '{p}'; expected design files (*.toml) in it", file=sys.stderr
+                )
+                bad += 1
+            out += found
+        else:
+            out.append(p)
+    return out, bad
+
+
+def _check_line(path: str, s: dict[str, Any]) -> list[str]:
+    from lampcalc.quantities.units import format_value
+
+    def fig(v: Any, kind: str) -> str:
+        if v is None:
+            return "-"
+        return f"{v:.2f}" if kind == "ratio" else format_value(float(v), kind)
+
+    return [
+        path,
+        str(s["name"]),
+        s["verdict"].upper(),
+        fig(s["led_current_avg_A"], "current"),
+        fig(s["input_power_W"], "power"),
+        fig(s["power_factor"], "ratio"),
+        ", ".join(s["failed_checks"]) or "-",
+    ]
+
+
+def run_check_set(args: argparse.Namespace) -> int:
+    """``lampbook check`` over several files or a folder: one summary line per design and a total."""
+    from lampcalc.cautions import MAINS, SHORT
+
+    from .catalogue import check_design, default_jobs, run_all
+    from .report import bullets, table
+
+    if args.waveforms:
+        print(f"lampbook check: --waveforms: takes one design file; got {len(args.design)} paths", file=sys.stderr)
+        return 2
+    paths, refused = _design_files(args.design)
+    texts: dict[str, str] = {}
+    for p in paths:
+        text = _read(p)
+        if text is None:
+            refused += 1
+        else:
+            texts[p] = text
+    names = list(texts)
+    results = run_all(check_design, [texts[p] for p in names], jobs=args.jobs or default_jobs())
+    items: list[dict[str, Any]] = []
+    rows = []
+    for p, r in zip(names, results, strict=True):
+        if "errors" in r:
+            _errors(r["errors"], f"lampbook check {p}")
+            refused += 1
+            items.append({"design": p, "verdict": "error", "errors": r["errors"]})
+            continue
+        s = r["summary"]
+        items.append({"design": p, **s, **({"caution": SHORT} if s["kind"] != "cv" else {})})
+        rows.append(_check_line(p, s))
+    counts = {v: sum(1 for it in items if it["verdict"] == v) for v in ("fail", "warn", "pass")}
+    if args.json:
+        print(json.dumps(items, indent=2, sort_keys=True, ensure_ascii=False))
+    else:
+        headers = ["design", "name", "verdict", "LED current", "input power", "PF", "failing checks"]
+        lines = table(headers, rows).splitlines()
+        # the failing-check list trails unaligned: rule it only as wide as its heading
+        lines[1] = lines[1].rsplit("  ", 1)[0] + "  " + "-" * len(headers[-1])
+        print("\n".join(lines))
+        total = (
+            f"\n{len(rows)} design{'s' if len(rows) != 1 else ''} checked: {counts['fail']} fail, "
+            f"{counts['warn']} warn, {counts['pass']} pass"
+        )
+        if refused:
+            total += f"; {refused} could not be checked (see the messages above)"
+        print(total + ". Figures at nominal supply; exit code 1 when any design fails.")
+        if any(it.get("kind") not in (None, "cv") for it in items):
+            print("\n" + bullets("CAUTION (mains):", MAINS))
+    if refused:
+        return 2
+    return 1 if counts["fail"] else 0
 
 
 def run_sheet(args: argparse.Namespace) -> int:
@@ -84,15 +180,37 @@ def _pyodide() -> str:
     return PYODIDE_VERSION
 
 
+def _jobs(value: str) -> int:
+    try:
+        n = int(value)
+    except ValueError:
+        n = -1
+    if n < 0:
+        raise argparse.ArgumentTypeError(f"got '{value}'; expected a whole number of processes, 0 or more")
+    return n
+
+
 def add(sub: Any) -> None:
     p = sub.add_parser(
         "check",
         help="solve a fixture design at nominal, low and high mains",
         description="Solve a fixture design file (TOML) at nominal mains and at both ends of its tolerance.",
     )
-    p.add_argument("design", metavar="DESIGN.toml")
-    p.add_argument("--json", action="store_true", help="print one JSON object")
+    p.add_argument(
+        "design",
+        metavar="DESIGN",
+        nargs="+",
+        help="a design file (TOML); several files or a folder give one summary line per design and a total",
+    )
+    p.add_argument("--json", action="store_true", help="print one JSON object (a list of summaries for several)")
     p.add_argument("--waveforms", action="store_true", help="include the nominal waveforms in the JSON")
+    p.add_argument(
+        "--jobs",
+        type=_jobs,
+        default=0,
+        metavar="N",
+        help="worker processes for several designs (default 0: as many as the machine has cores; 1 for none)",
+    )
     p.set_defaults(_run=run_check)
     p = sub.add_parser(
         "sheet",

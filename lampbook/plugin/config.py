@@ -28,3 +28,12 @@ class LampbookConfig(base.Config):  # type: ignore[no-untyped-call]  # mkdocs le
 
     load_timeout = c.Type(int, default=60)
     """Seconds the page waits for the engine before saying it could not start."""
+
+    review_jobs = c.Type(int, default=0)
+    """Worker processes that review designs needing a review: 0 for as many as the machine has cores, 1 for none."""
+
+    review_cache = c.Type(bool, default=True)
+    """Keep each design's review under cache_dir/reviews, keyed by the design text, the core and the options."""
+
+    designs_index = c.Type(bool, default=True)
+    """Generate the fixtures index page (index.md in the designs folder) unless the folder has its own."""

@@ -31,6 +31,9 @@ SITE_ASSETS = (
 
 
 class LampbookPlugin(BasePlugin[LampbookConfig]):  # type: ignore[no-untyped-call]  # as above
+    BYPASS_MARKDOWN = True
+    """Generated sheet bodies (HTML from the core) go into the page without a Markdown pass."""
+
     def on_config(self, config: MkDocsConfig) -> MkDocsConfig:
         if not self.config.enabled:
             return config
@@ -40,26 +43,92 @@ class LampbookPlugin(BasePlugin[LampbookConfig]):  # type: ignore[no-untyped-cal
         s = ExtraScriptValue("assets/lampbook/widget.js")
         s.type = "module"
         config.extra_javascript.append(s)
+        if self.config.designs and self.config.designs_index:
+            config.extra_css.append("assets/lampbook/catalogue.css")
+            config.extra_javascript.append("assets/lampbook/catalogue.js")
         self._safety: File | None = None
+        self._sheets: dict[str, tuple[str, str, str]] = {}
         return config
 
     def on_files(self, files: Files, config: MkDocsConfig) -> Files:
         self._safety = files.get_file_from_path("safety.md")
         if self.config.enabled and self.config.designs:
-            from ..sheets import SheetError, sheet_pages
-
-            try:
-                pages = sheet_pages(Path(config.docs_dir), self.config.designs)
-            except SheetError as e:
-                raise PluginError(f"lampbook: {e}") from None
-            for src_uri, text in pages:
-                if files.get_file_from_path(src_uri) is None:
-                    files.append(File.generated(config, src_uri, content=text))
+            self._design_pages(files, config, self.config.designs)
         return files
+
+    def _design_pages(self, files: Files, config: MkDocsConfig, folder: str) -> None:
+        """A build sheet per design file, reviewed once per content (see :mod:`lampbook.sheets`), and the index."""
+        from ..catalogue import default_jobs
+        from ..fixtureindex import IndexRow, index_markdown
+        from ..reviewcache import ReviewCache
+        from ..sheets import SheetError, design_sheets
+
+        jobs = self.config.review_jobs
+        if jobs < 0:
+            raise PluginError(f"lampbook: review_jobs: got {jobs}; expected 0 (as many as there are cores) or more")
+        jobs = jobs or default_jobs()
+        cache = None
+        if self.config.review_cache:
+            cache = ReviewCache(Path(config.config_file_path).parent / self.config.cache_dir / "reviews")
+
+        def start(todo: int, cached: int) -> None:
+            if todo > 1 and jobs > 1:
+                log.info(
+                    "reviewing %d designs in %d worker processes (%d from the cache)", todo, min(jobs, todo), cached
+                )
+            elif todo:
+                log.info("reviewing %d design%s (%d from the cache)", todo, "s" if todo != 1 else "", cached)
+
+        def progress(done: int, total: int, seconds: float) -> None:
+            if done < total:
+                log.info("reviewed %d of %d designs (%.0f s)", done, total, seconds)
+
+        try:
+            run = design_sheets(Path(config.docs_dir), folder, cache, jobs, progress, start)
+        except SheetError as e:
+            raise PluginError(f"lampbook: {e}") from None
+        for msg in run.cache_errors[:1]:
+            log.info("review cache not written (%s); the build goes on without it", msg)
+        log.info(
+            "designs: %d sheets, %d reviewed (%.1f s of review), %d from the cache; %.1f s",
+            len(run.sheets),
+            run.reviewed,
+            run.review_seconds,
+            run.cached,
+            run.seconds,
+        )
+        pages = {}
+        self._sheets = {}
+        for sheet in run.sheets:
+            f = files.get_file_from_path(sheet.src_uri)
+            if f is None:
+                f = File.generated(config, sheet.src_uri, content=sheet.markdown)
+                files.append(f)
+                if self.BYPASS_MARKDOWN and sheet.stub is not None and sheet.body is not None:
+                    self._sheets[sheet.src_uri] = (sheet.markdown, sheet.stub, sheet.body)
+            pages[sheet.design] = f
+        if not self.config.designs_index:
+            return
+        for name in ("catalogue.js", "catalogue.css"):  # named in extra_javascript / extra_css by on_config
+            files.append(File.generated(config, f"assets/lampbook/{name}", abs_src_path=str(ASSETS / name)))
+        index_uri = folder.strip("/") + "/index.md"
+        if not run.sheets or files.get_file_from_path(index_uri) is not None:
+            return
+        index = File.generated(config, index_uri, content="")
+        rows = [
+            IndexRow(s.summary, get_relative_url(pages[s.design].url, index.url), s.design.rsplit("/", 1)[-1])
+            for s in run.sheets
+        ]
+        safety = get_relative_url(self._safety.url, index.url) if self._safety is not None else None
+        index.content_string = index_markdown(rows, safety_href=safety)
+        files.append(index)
 
     def on_page_markdown(self, markdown: str, /, *, page: Page, config: MkDocsConfig, files: Files) -> str:
         if not self.config.enabled:
             return markdown
+        sheet = self._sheets.get(page.file.src_uri)
+        if sheet is not None and markdown == sheet[0]:
+            return sheet[1]  # the core's HTML body waits for on_page_content
         safety = None
         if self._safety is not None and page.file.src_uri != self._safety.src_uri:
             safety = get_relative_url(self._safety.url, page.file.url)
@@ -70,6 +139,15 @@ class LampbookPlugin(BasePlugin[LampbookConfig]):  # type: ignore[no-untyped-cal
         if n:
             log.debug("%s: %d calculator blocks", page.file.src_uri, n)
         return out
+
+    def on_page_content(self, html: str, /, *, page: Page, config: MkDocsConfig, files: Files) -> str:
+        """A generated sheet's body is HTML already: it skipped the Markdown pass and is put back here."""
+        from ..sheets import SHEET_SLOT
+
+        sheet = self._sheets.get(page.file.src_uri) if self.config.enabled else None
+        if sheet is None or SHEET_SLOT not in html:
+            return html
+        return html.replace(SHEET_SLOT, sheet[2], 1)
 
     def on_post_page(self, output: str, /, *, page: Page, config: MkDocsConfig) -> str:
         if not self.config.enabled:
