@@ -16,6 +16,7 @@ import sys
 import tempfile
 import zipfile
 from pathlib import Path
+from typing import Any
 
 import lampcalc
 
@@ -156,15 +157,67 @@ def compiled_stdlib(runtime: Path, cache_dir: Path) -> Path:
     return out
 
 
-def install_engine(site_dir: Path, runtime: Path, stdlib: Path | None = None) -> dict[str, str]:
+def _rewrite_record(src: Path, dest: Path) -> None:
+    """Write DEST: the wheel SRC with its RECORD listing every file it holds (fixed times)."""
+    with zipfile.ZipFile(src) as z:
+        files = [(i.filename, z.read(i)) for i in sorted(z.infolist(), key=lambda i: i.filename)]
+    record_name = next(n for n, _ in files if n.endswith(".dist-info/RECORD"))
+    files = [(n, d) for n, d in files if n != record_name]
+    lines = []
+    for arc, data in files:
+        digest = base64.urlsafe_b64encode(hashlib.sha256(data).digest()).rstrip(b"=").decode()
+        lines.append(f"{arc},sha256={digest},{len(data)}")
+    lines.append(f"{record_name},,")
+    files.append((record_name, ("\n".join(lines) + "\n").encode()))
+    with zipfile.ZipFile(dest, "w", zipfile.ZIP_DEFLATED) as out:
+        for arc, data in files:
+            zi = zipfile.ZipInfo(arc, _EPOCH)
+            zi.compress_type = zipfile.ZIP_DEFLATED
+            zi.external_attr = 0o644 << 16
+            out.writestr(zi, data)
+
+
+def compile_wheel(wheel: Path, runtime: Path, cache_dir: Path) -> None:
+    """Add to the core's WHEEL (in place) a .pyc beside each .py, compiled by Pyodide
+    itself, so the engine imports the core without compiling it (zipimport takes the
+    .pyc; the .py stays for tracebacks and for installers, which ignore the .pyc)."""
+    script = Path(__file__).resolve().parent / "assets" / "pycompile.mjs"
+    key = hashlib.sha256((sha256(wheel) + sha256(script) + PYODIDE_VERSION).encode()).hexdigest()[:20]
+    cached = cache_dir / f"core-{key}.whl"
+    if not cached.is_file():
+        node = shutil.which("node")
+        if node is None:
+            raise BundleError("node is needed to byte-compile the core (set compile_stdlib: false)")
+        cache_dir.mkdir(parents=True, exist_ok=True)
+        tmp = cached.with_suffix(".tmp")
+        proc = subprocess.run(
+            [node, str(script), str(runtime), str(wheel), str(tmp), "--keep-source"],
+            capture_output=True,
+            text=True,
+            timeout=600,
+        )
+        if proc.returncode != 0 or not tmp.is_file():
+            raise BundleError("byte-compiling the core failed: " + (proc.stderr or proc.stdout)[-800:])
+        _rewrite_record(tmp, cached.with_suffix(".part"))
+        tmp.unlink()
+        cached.with_suffix(".part").replace(cached)
+    shutil.copyfile(cached, wheel)
+
+
+def install_engine(
+    site_dir: Path, runtime: Path, stdlib: Path | None = None, cache_dir: Path | None = None
+) -> dict[str, str]:
     """Copy the runtime and the wheel into SITE/engine/, write the trimmed
     lock file; return the file digests. ``stdlib`` replaces the runtime's
-    standard library zip (the byte-compiled one)."""
+    standard library zip (the byte-compiled one); with ``cache_dir`` the
+    core's wheel gets byte-compiled modules beside its sources."""
     eng = site_dir / "engine"
     eng.mkdir(parents=True, exist_ok=True)
     for f in RUNTIME_FILES:
         shutil.copyfile(stdlib if (stdlib and f == "python_stdlib.zip") else runtime / f, eng / f)
     wheel = build_wheel(eng)
+    if cache_dir is not None:
+        compile_wheel(wheel, runtime, cache_dir)
     full = json.loads((runtime / "pyodide-lock.json").read_text())
     lock = {
         "info": full["info"],
@@ -187,25 +240,236 @@ def install_engine(site_dir: Path, runtime: Path, stdlib: Path | None = None) ->
     return {p.name: sha256(p) for p in sorted(eng.iterdir())}
 
 
-def precache_list(site_dir: Path) -> list[str]:
+SEARCH_BUNDLES = "assets/javascripts/lunr/"
+
+
+def search_bundles(languages: list[str]) -> set[str]:
+    """The theme's search-language files (under ``assets/javascripts/lunr/``) that its
+    search worker loads for LANGUAGES: a stemmer per language other than English, the
+    support file when there is any, the multi-language file for more than one, and the
+    word splitters of Japanese (tinyseg) and of Hindi and Thai (wordcut)."""
+    out: set[str] = set()
+    for lang in languages:
+        if lang == "ja":
+            out.add("tinyseg.js")
+        if lang in ("hi", "th"):
+            out.add("wordcut.js")
+        if lang != "en":
+            out.add(f"min/lunr.{lang}.min.js")
+    if len(languages) > 1:
+        out.add("min/lunr.multi.min.js")
+    if out:
+        out.add("min/lunr.stemmer.support.min.js")
+    return {SEARCH_BUNDLES + f for f in out}
+
+
+def precache_list(site_dir: Path, languages: list[str] | None = None, source_maps: bool = False) -> list[str]:
+    """The files the service worker caches: the whole site except itself, compressed
+    siblings, source maps (unless SOURCE_MAPS) and search-language bundles other than
+    those LANGUAGES need (None: all of them)."""
+    keep_search = search_bundles(languages) if languages is not None else None
     out = []
     for root, _, files in os.walk(site_dir):
         for f in files:
             p = Path(root) / f
             rel = p.relative_to(site_dir).as_posix()
-            if rel == "sw.js" or rel.endswith((".map", ".gz")):
+            if rel == "sw.js" or rel.endswith((".gz", ".br")) or (rel.endswith(".map") and not source_maps):
+                continue
+            if keep_search is not None and rel.startswith(SEARCH_BUNDLES) and rel not in keep_search:
                 continue
             out.append(rel)
     return sorted(out)
 
 
-def write_service_worker(site_dir: Path, template: str) -> str:
-    files = precache_list(site_dir)
+def write_service_worker(
+    site_dir: Path, template: str, languages: list[str] | None = None, source_maps: bool = False
+) -> str:
+    """Write SITE/sw.js: the precache list, the build's version (a digest of every
+    precached file), and the digests of the engine's files, by which the service
+    worker takes over the copies the engine has just downloaded instead of fetching
+    them again."""
+    files = precache_list(site_dir, languages, source_maps)
     h = hashlib.sha256()
+    digests = {}
     for rel in files:
+        d = hashlib.sha256((site_dir / rel).read_bytes())
         h.update(rel.encode())
-        h.update(hashlib.sha256((site_dir / rel).read_bytes()).digest())
+        h.update(d.digest())
+        if rel.startswith("engine/"):
+            digests[rel] = d.hexdigest()
     version = h.hexdigest()[:16]
-    manifest = json.dumps({"version": version, "files": files}, sort_keys=True)
+    manifest = json.dumps({"version": version, "files": files, "digests": digests}, sort_keys=True)
     (site_dir / "sw.js").write_text(template.replace("/*LAMPBOOK_PRECACHE*/null", manifest))
     return version
+
+
+#: what a static host would compress: text, scripts, JSON, wasm, SVG (zip, wheels and images are compressed already)
+COMPRESSIBLE = (".html", ".css", ".js", ".mjs", ".json", ".wasm", ".svg", ".xml", ".txt", ".webmanifest", ".map")
+
+
+def _compressed(data: bytes, kind: str, cache_dir: Path | None) -> bytes:
+    """DATA compressed by KIND ("gz": gzip level 9 with no name or time in its header;
+    "br": brotli quality 11), kept in CACHE_DIR by the digest of DATA (the runtime's
+    files are the same build after build, and brotli at its best is slow)."""
+    key = cache_dir / "compressed" / f"{hashlib.sha256(data).hexdigest()}.{kind}" if cache_dir else None
+    if key is not None and key.is_file():
+        return key.read_bytes()
+    if kind == "gz":
+        import gzip
+
+        out = gzip.compress(data, compresslevel=9, mtime=0)
+    else:
+        import brotli  # type: ignore[import-untyped,import-not-found,unused-ignore]
+
+        out = bytes(brotli.compress(data, quality=11))
+    if key is not None:
+        key.parent.mkdir(parents=True, exist_ok=True)
+        key.with_suffix(".part").write_bytes(out)
+        key.with_suffix(".part").replace(key)
+    return out
+
+
+def brotli_available() -> bool:
+    try:
+        import brotli  # type: ignore[import-untyped,import-not-found,unused-ignore]  # noqa: F401
+    except ImportError:
+        return False
+    return True
+
+
+def write_compressed(site_dir: Path, cache_dir: Path | None = None, min_size: int = 1024) -> dict[str, int]:
+    """Write FILE.gz (and FILE.br where the brotli package is installed) beside every
+    compressible file of at least MIN_SIZE bytes, where it is smaller; reproducible.
+    Returns the count and the bytes before and after."""
+    use_br = brotli_available()
+    totals = {"files": 0, "bytes": 0, "gzip": 0, "brotli": 0}
+    for p in sorted(site_dir.rglob("*")):
+        if not p.is_file() or p.suffix not in COMPRESSIBLE or p.stat().st_size < min_size:
+            continue
+        data = p.read_bytes()
+        gz = _compressed(data, "gz", cache_dir)
+        if len(gz) >= len(data):
+            continue
+        totals["files"] += 1
+        totals["bytes"] += len(data)
+        p.with_name(p.name + ".gz").write_bytes(gz)
+        totals["gzip"] += len(gz)
+        if use_br:
+            br = _compressed(data, "br", cache_dir)
+            p.with_name(p.name + ".br").write_bytes(br)
+            totals["brotli"] += len(br)
+    return totals
+
+
+# --- the standard library trimmed to what the engine uses (found by measurement) -------------
+
+
+def _wheel_modules(wheel: Path) -> list[str]:
+    with zipfile.ZipFile(wheel) as z:
+        names = [n for n in z.namelist() if n.startswith("lampcalc/") and n.endswith(".py")]
+    return sorted(n[:-3].replace("/", ".").removesuffix(".__init__") for n in names)
+
+
+def exercise(wheel: Path, designs: list[Path]) -> dict[str, Any]:
+    """What the measuring run does besides starting the engine: import every module of
+    the core, describe, compute every calculator with its defaults and with a bad value
+    in each field, answer bad requests, and check, study and sheet the starter design
+    (any page may open a design file) and each of DESIGNS."""
+    from lampcalc.calculators import CALCULATORS
+
+    from .scaffold import DESIGN
+
+    requests: list[dict[str, Any]] = [{"kind": "describe"}, {"kind": "no such kind"}]
+    for name, calc in CALCULATORS.items():
+        requests.append({"kind": "compute", "calculator": name, "inputs": {}})
+        for p in calc.params:
+            requests.append({"kind": "compute", "calculator": name, "inputs": {p.name: "1e999 zz"}})
+    for toml in [DESIGN, *(d.read_text(encoding="utf-8") for d in designs)]:
+        requests.append({"kind": "check", "toml": toml, "waveforms": True})
+        requests.append({"kind": "study", "toml": toml, "samples": 8, "seed": 1})
+        requests.append({"kind": "sheet", "toml": toml})
+    requests.append({"kind": "check", "toml": "[not toml"})
+    return {"modules": _wheel_modules(wheel), "requests": requests}
+
+
+def stdlib_usage(engine_dir: Path, cache_dir: Path, designs: list[Path]) -> list[str]:
+    """The zip entries of ENGINE_DIR's standard library that the started engine loads
+    while it imports every module of the core and answers every kind of request
+    (measured with Pyodide on Node, cached by the digest of everything it depends on)."""
+    script = Path(__file__).resolve().parent / "assets" / "stdlib_usage.mjs"
+    wheel = next(engine_dir.glob("lampcalc-*.whl"))
+    ex = json.dumps(exercise(wheel, designs), sort_keys=True)
+    parts = [sha256(engine_dir / f) for f in ("python_stdlib.zip", "pyodide.asm.wasm", "pyodide-lock.json")]
+    parts += [sha256(wheel), sha256(script), hashlib.sha256(ex.encode()).hexdigest()]
+    key = hashlib.sha256("".join(parts).encode()).hexdigest()[:20]
+    out = cache_dir / f"stdlib-usage-{key}.json"
+    if not out.is_file():
+        node = shutil.which("node")
+        if node is None:
+            raise BundleError("node is needed to measure the standard library (set trim_stdlib: false)")
+        cache_dir.mkdir(parents=True, exist_ok=True)
+        with tempfile.TemporaryDirectory(prefix="lampbook-usage-") as tmp:
+            ex_file = Path(tmp) / "exercise.json"
+            ex_file.write_text(ex, encoding="utf-8")
+            res = Path(tmp) / "usage.json"
+            proc = subprocess.run(
+                [node, str(script), str(engine_dir), str(ex_file), str(res)],
+                capture_output=True,
+                text=True,
+                timeout=600,
+            )
+            if proc.returncode != 0 or not res.is_file():
+                raise BundleError("measuring the standard library failed: " + (proc.stderr or proc.stdout)[-800:])
+            shutil.copyfile(res, out)
+    used: list[str] = json.loads(out.read_text(encoding="utf-8"))["used"]
+    if "encodings/__init__.pyc" not in used and "encodings/__init__.py" not in used:
+        raise BundleError("the standard library measurement looks wrong (encodings not loaded)")
+    return used
+
+
+def trim_stdlib(src: Path, dest: Path, used: list[str], keep: list[str]) -> dict[str, int]:
+    """Write DEST: the entries of the zip SRC that were USED, and every module or package
+    named in KEEP (dotted names, from the plugin's ``stdlib_modules``)."""
+    wanted = set(used)
+    with zipfile.ZipFile(src) as z:
+        infos = sorted(z.infolist(), key=lambda i: i.filename)
+        names = {i.filename for i in infos}
+        for mod in keep:
+            path = mod.strip().replace(".", "/")
+            hits = {n for n in names if n.startswith(path + "/") or n in (path + ".py", path + ".pyc")}
+            if not mod.strip() or not hits:
+                raise BundleError(
+                    f"stdlib_modules: {mod!r} is not a module of Pyodide's standard library "
+                    "(expected a dotted module or package name such as 'statistics' or 'email.mime')"
+                )
+            wanted |= hits
+            # the packages above a kept module
+            parts = path.split("/")
+            for i in range(1, len(parts)):
+                wanted |= {
+                    n
+                    for n in names
+                    if n in ("/".join(parts[:i]) + "/__init__.py", "/".join(parts[:i]) + "/__init__.pyc")
+                }
+        # a frozen module (the import system itself) names a source file the zip need not hold
+        wanted = {n if n in names or n + "c" not in names else n + "c" for n in wanted} & names
+        tmp = dest.with_suffix(".tmp")
+        with zipfile.ZipFile(tmp, "w", zipfile.ZIP_DEFLATED) as out:
+            for info in infos:
+                if info.filename in wanted:
+                    zi = zipfile.ZipInfo(info.filename, _EPOCH)
+                    zi.compress_type = zipfile.ZIP_DEFLATED
+                    out.writestr(zi, z.read(info))
+    tmp.replace(dest)
+    return {"files": len(wanted), "of": len(names), "bytes": dest.stat().st_size, "before": src.stat().st_size}
+
+
+def trim_engine_stdlib(site_dir: Path, cache_dir: Path, keep: list[str], designs: list[Path]) -> dict[str, int]:
+    """Replace SITE/engine/python_stdlib.zip by the part the engine was measured to use."""
+    eng = site_dir / "engine"
+    used = stdlib_usage(eng, cache_dir, designs)
+    full = eng / "python_stdlib.zip"
+    with tempfile.TemporaryDirectory(prefix="lampbook-trim-") as tmp:
+        whole = Path(tmp) / "python_stdlib.zip"
+        shutil.copyfile(full, whole)
+        return trim_stdlib(whole, full, used, keep)

@@ -42,7 +42,8 @@ def _add_calculators(sub: Any) -> None:
             elif prm.dim not in ("text", "count"):
                 from lampcalc.quantities.units import dimension
 
-                bits.append(f"A {prm.dim} such as '{dimension(prm.dim).example}'.")
+                expected = dimension(prm.dim).expected
+                bits.append(expected[0].upper() + expected[1:] + ".")
             if prm.modes:
                 bits.append(f"For {calc.mode} {'/'.join(prm.modes)}.")
             bits.append(f"Default: {prm.default}." if prm.default is not None else "Optional.")
@@ -53,6 +54,7 @@ def _add_calculators(sub: Any) -> None:
                 help=" ".join(bits).replace("%", "%%"),
             )
         p.add_argument("--json", action="store_true", help="print one JSON object instead of the table")
+        p.add_argument("--wide", action="store_true", help="use the full width instead of 80 columns")
         p.set_defaults(_run=_run_calculator, _calc=calc.name)
 
 
@@ -73,14 +75,16 @@ def _run_calculator(args: argparse.Namespace) -> int:
     else:
         from .report import answer
 
-        print(answer(describe(calc), ans))
+        print(answer(describe(calc), ans, wide=args.wide))
     return 0
 
 
 def _flag_message(e: dict[str, str]) -> str:
     field = e.get("field") or ""
     if field and e.get("expected"):
-        return f"{_option(field)}: got '{e['value']}'; expected {e['expected']}"
+        from lampcalc.errors import printable
+
+        return f"{_option(field)}: got '{printable(e['value'])}'; expected {e['expected']}"
     return e.get("message", "")
 
 
@@ -109,6 +113,16 @@ def main(argv: Sequence[str] | None = None) -> int:
         return int(args._run(args))
     except BrokenPipeError:
         return 0
+    except RecursionError:
+        print(f"lampbook {args.command}: input nested too deeply to read; expected a flat design file", file=sys.stderr)
+        return 2
+    except Exception as e:  # one plain line, never a traceback
+        print(
+            f"lampbook {args.command}: internal error, please report it with the inputs that caused it: "
+            f"{type(e).__name__}: {e}",
+            file=sys.stderr,
+        )
+        return 70
 
 
 if __name__ == "__main__":  # pragma: no cover

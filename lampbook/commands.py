@@ -9,13 +9,31 @@ import sys
 from pathlib import Path
 from typing import Any
 
+#: Largest design file read: a real design is a few kilobytes.
+MAX_DESIGN_BYTES = 1_000_000
+
 
 def _read(path: str) -> str | None:
     try:
-        with open(path, encoding="utf-8") as fh:
-            return fh.read()
+        with open(path, "rb") as fh:
+            data = fh.read(MAX_DESIGN_BYTES + 1)
     except OSError as e:
         print(f"lampbook: DESIGN: cannot read '{path}': {e.strerror}", file=sys.stderr)
+        return None
+    if len(data) > MAX_DESIGN_BYTES:
+        print(
+            f"lampbook: DESIGN: '{path}' is over {MAX_DESIGN_BYTES // 1000} kB; "
+            "expected a design file (a few kB of TOML)",
+            file=sys.stderr,
+        )
+        return None
+    try:
+        return data.decode("utf-8")
+    except UnicodeDecodeError as e:
+        print(
+            f"lampbook: DESIGN: '{path}' is not UTF-8 text (byte {e.start}); expected a TOML design saved as UTF-8",
+            file=sys.stderr,
+        )
         return None
 
 
@@ -36,14 +54,25 @@ def run_check(args: argparse.Namespace) -> int:
         return 2
     ans = handle("check", {"toml": text, "waveforms": args.waveforms})
     if not ans["ok"]:
-        return _errors(ans["errors"], f"lampbook check {args.design}")
+        rc = _errors(ans["errors"], f"lampbook check {args.design}")
+        # a valid design with no periodic steady state is a finding about the design (exit 1),
+        # not bad input (exit 2)
+        solver = all(not e.get("field") and e["message"].startswith("steady state did not") for e in ans["errors"])
+        return 1 if solver else rc
     ans.pop("ok")
     if args.json:
-        print(json.dumps(ans, indent=2, sort_keys=True, ensure_ascii=False))
+        from lampcalc.api import dumps
+
+        print(dumps(ans, indent=2, sort_keys=True, ensure_ascii=False))
     else:
         from .designtext import check_report
+        from .report import full_width
 
-        print(check_report(ans))
+        if args.wide:
+            with full_width():
+                print(check_report(ans))
+        else:
+            print(_fit(check_report(ans)))
     return 1 if ans["failed"] else 0
 
 
@@ -120,7 +149,8 @@ def run_check_set(args: argparse.Namespace) -> int:
         print(json.dumps(items, indent=2, sort_keys=True, ensure_ascii=False))
     else:
         headers = ["design", "name", "verdict", "LED current", "input power", "PF", "failing checks"]
-        lines = table(headers, rows).splitlines()
+        # one line per design whatever the width: a catalogue is read down its lines
+        lines = table(headers, rows, width=None).splitlines()
         # the failing-check list trails unaligned: rule it only as wide as its heading
         lines[1] = lines[1].rsplit("  ", 1)[0] + "  " + "-" * len(headers[-1])
         print("\n".join(lines))
@@ -138,9 +168,27 @@ def run_check_set(args: argparse.Namespace) -> int:
     return 1 if counts["fail"] else 0
 
 
+def _fit(text: str) -> str:
+    """Wrap any line still over 80 columns (tables already fit; this catches prose)."""
+    import textwrap
+
+    from .report import WIDTH
+
+    out = []
+    for line in text.splitlines():
+        out.extend(textwrap.wrap(line, WIDTH, subsequent_indent="  ") if len(line) > WIDTH else [line])
+    return "\n".join(out)
+
+
 def run_sheet(args: argparse.Namespace) -> int:
     from .sheets import SheetError, sheet_markdown
 
+    if args.output not in (None, "-") and _same_file(args.output, args.design):
+        print(
+            f"lampbook: -o: '{args.output}' is the design being read; expected another file for the page",
+            file=sys.stderr,
+        )
+        return 2
     text = _read(args.design)
     if text is None:
         return 2
@@ -152,13 +200,21 @@ def run_sheet(args: argparse.Namespace) -> int:
     if args.output in (None, "-"):
         sys.stdout.write(page)
     else:
+        from .atomic import write_atomic
+
         try:
-            with open(args.output, "w", encoding="utf-8") as fh:
-                fh.write(page)
+            write_atomic(args.output, page)
         except OSError as e:
             print(f"lampbook: -o: cannot write '{args.output}': {e.strerror}", file=sys.stderr)
             return 2
     return 0
+
+
+def _same_file(a: str, b: str) -> bool:
+    try:
+        return os.path.samefile(a, b)
+    except OSError:
+        return os.path.abspath(a) == os.path.abspath(b)
 
 
 def run_new(args: argparse.Namespace) -> int:
@@ -211,6 +267,7 @@ def add(sub: Any) -> None:
         metavar="N",
         help="worker processes for several designs (default 0: as many as the machine has cores; 1 for none)",
     )
+    p.add_argument("--wide", action="store_true", help="use the full width instead of 80 columns")
     p.set_defaults(_run=run_check)
     p = sub.add_parser(
         "sheet",

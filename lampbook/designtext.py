@@ -65,6 +65,9 @@ def check_report(ans: Mapping[str, Any]) -> str:
                 ],
             ),
         ]
-    parts.append(f"\n{ans['failed']} failed, {ans['warned']} warnings. Exit code 1 when any check fails.")
+    parts.append(
+        f"\n{ans['failed']} failed, {ans['warned']} warning{'' if ans['warned'] == 1 else 's'}. "
+        "Exit code 1 when any check fails."
+    )
     parts += ["", bullets("CAUTION (mains):" if not cv else "CAUTION:", ans["cautions"])]
     return "\n".join(parts)

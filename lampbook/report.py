@@ -2,43 +2,120 @@
 
 from __future__ import annotations
 
+import contextlib
 import textwrap
-from collections.abc import Mapping, Sequence
+from collections.abc import Iterator, Mapping, Sequence
 from typing import Any
 
+#: Terminal width the report keeps to unless asked for full width.
+WIDTH = 80
 
-def table(headers: Sequence[str], rows: Sequence[Sequence[str]]) -> str:
+
+_full_width = False
+
+
+@contextlib.contextmanager
+def full_width() -> Iterator[None]:
+    """Within this block tables and notes use the full width (``--wide``)."""
+    global _full_width
+    old, _full_width = _full_width, True
+    try:
+        yield
+    finally:
+        _full_width = old
+
+
+def _limit(width: int | None) -> int | None:
+    return None if _full_width else width
+
+
+def table(headers: Sequence[str], rows: Sequence[Sequence[str]], width: int | None = WIDTH) -> str:
+    """Rows under their headers, within ``width`` columns (None: no limit): a
+    long last column wraps under itself; when even that cannot fit, each row is
+    stacked as one "header  value" line per column."""
+    width = _limit(width)
     widths = [len(h) for h in headers]
     for r in rows:
         widths = [max(w, len(c)) for w, c in zip(widths, r)]
+    if width is not None and sum(widths) + 2 * (len(widths) - 1) > width:
+        lead = sum(widths[:-1]) + 2 * (len(widths) - 1)
+        if len(widths) > 1 and width - lead >= 30:
+            return _wrapped_last(headers, rows, widths[:-1], width - lead)
+        return stacked(headers, rows, width)
     line = "  ".join(h.ljust(w) for h, w in zip(headers, widths))
     out = [line, "  ".join("-" * w for w in widths)]
     out += ["  ".join(c.ljust(w) for c, w in zip(r, widths)) for r in rows]
     return "\n".join(x.rstrip() for x in out)
 
 
-def bullets(title: str, items: Sequence[str], width: int = 88) -> str:
+def _wrapped_last(headers: Sequence[str], rows: Sequence[Sequence[str]], lead: Sequence[int], last: int) -> str:
+    widths = [*lead, min(last, max(len(headers[-1]), *(len(r[-1]) for r in rows)))]
+    out = ["  ".join(h.ljust(w) for h, w in zip(headers, widths)), "  ".join("-" * w for w in widths)]
+    indent = " " * (sum(lead) + 2 * len(lead))
+    for r in rows:
+        pieces = textwrap.wrap(r[-1], last) or [""]
+        out.append("  ".join(c.ljust(w) for c, w in zip(r[:-1], lead)) + "  " + pieces[0])
+        out += [indent + p for p in pieces[1:]]
+    return "\n".join(x.rstrip() for x in out)
+
+
+def stacked(headers: Sequence[str], rows: Sequence[Sequence[str]], width: int) -> str:
+    w = max((len(h) for h in headers), default=0)
+    blocks = []
+    for r in rows:
+        lines = []
+        for h, c in zip(headers, r):
+            lines.append(
+                textwrap.fill(c, width, initial_indent=f"{h.ljust(w)}  ", subsequent_indent=" " * (w + 2)) if c else h
+            )
+        blocks.append("\n".join(lines))
+    return "\n\n".join(blocks)
+
+
+def pair_lines(pairs: Sequence[tuple[str, str]], width: int | None = None) -> str:
+    w = max((len(a) for a, _ in pairs), default=0)
+    if width is None:
+        return "\n".join(f"{a.ljust(w)}  {b}" for a, b in pairs)
+    if w + 2 + 20 > width:
+        w = min(w, width // 2)
+    out = []
+    for a, b in pairs:
+        head = a.ljust(w) + "  "
+        if len(head) > width // 2 + 2:
+            out.append(textwrap.fill(a, width))
+            head = " " * 4
+        out.append(textwrap.fill(b, width, initial_indent=head, subsequent_indent=" " * len(head)))
+    return "\n".join(out)
+
+
+def bullets(title: str, items: Sequence[str], width: int = WIDTH - 2) -> str:
     if not items:
         return ""
+    if _full_width:
+        width = 10_000
     lines = [title]
     for it in items:
         lines.append(textwrap.fill(it, width, initial_indent="  - ", subsequent_indent="    "))
     return "\n".join(lines)
 
 
-def answer(desc: Mapping[str, Any], ans: Mapping[str, Any]) -> str:
+def answer(desc: Mapping[str, Any], ans: Mapping[str, Any], wide: bool = False) -> str:
     """Text for a core answer (``lampcalc.schema.to_json``) given its
-    declaration (``lampcalc.schema.describe``)."""
+    declaration (``lampcalc.schema.describe``); within 80 columns unless ``wide``."""
+    width = None if wide else WIDTH
     parts = [desc["title"], "=" * len(desc["title"])]
     pairs = [
-        (o["label"], ans["display"][o["name"]]) for o in desc["outputs"] if ans["values"].get(o["name"]) is not None
+        (o["label"], ans["display"][o["name"]])
+        for o in desc["outputs"]
+        if ans["values"].get(o["name"]) is not None or ans["display"].get(o["name"], "—") != "—"
     ]
-    w = max((len(a) for a, _ in pairs), default=0)
-    parts.append("\n".join(f"{a.ljust(w)}  {b}" for a, b in pairs))
+    parts.append(pair_lines(pairs, width))
     cols = [c for c in desc["columns"] if any(r.get(c["name"]) is not None for r in ans["rows"])]
     if ans["rows"] and cols:
         parts.append("")
-        parts.append(table([c["label"] for c in cols], [[r[c["name"]] for c in cols] for r in ans["rows_display"]]))
+        parts.append(
+            table([c["label"] for c in cols], [[r[c["name"]] for c in cols] for r in ans["rows_display"]], width)
+        )
     from lampcalc.cautions import MAINS
 
     mains = list(ans["cautions"]) == list(MAINS)
@@ -47,7 +124,7 @@ def answer(desc: Mapping[str, Any], ans: Mapping[str, Any]) -> str:
         ("Notes:", "notes"),
         ("CAUTION (mains):" if mains else "CAUTION:", "cautions"),
     ):
-        block = bullets(title, ans[key])
+        block = bullets(title, ans[key], (width or 10_000) - 2)
         if block:
             parts += ["", block]
     return "\n".join(parts)

@@ -113,7 +113,9 @@ def test_bad_input_one_line_exit_2(args: list[str], needle: str) -> None:
 def test_help_shows_units_and_defaults() -> None:
     r = lampbook("dropper", "--help")
     assert r.returncode == 0
-    assert "Default: 1 µF" in r.stdout and "such as '22 µF'" in r.stdout
+    text = " ".join(r.stdout.split())  # argparse wraps the help
+    assert "Default: 1 µF" in text and "such as '22 µF'" in text
+    assert "'2u2'" in text and "'0.1 MFD'" in text and "'4k7'" in text  # the forms each dimension takes
 
 
 def test_check_json_shape() -> None:
@@ -153,3 +155,75 @@ def test_check_bad_design_names_key(tmp_path: object) -> None:
     assert r.returncode == 2
     assert "smoothing.capacitance" in r.stderr and "array.colour" in r.stderr
     assert "Traceback" not in r.stderr
+
+
+# --- issue 14 ------------------------------------------------------------------------------
+
+
+@pytest.mark.parametrize(
+    ("args", "field", "si"),
+    [
+        # IEC 60062 codes and trade markings on the command line (IEC 60062, from memory)
+        (["ripple", "--capacitance", "2u2", "--json"], None, None),
+        (["dropper", "--bleeder", "4k7", "--json"], "bleeder", 4700.0),
+        (["dropper", "--capacitance", "0.47 MFD", "--json"], "reactance", 1 / (2 * 3.141592653589793 * 50 * 0.47e-6)),
+        (["dropper", "--capacitance", "0,47 uF", "--json"], "reactance", 1 / (2 * 3.141592653589793 * 50 * 0.47e-6)),
+    ],
+)
+def test_trade_spellings_on_the_command_line_X1(args: list[str], field: str | None, si: float | None) -> None:
+    # Xc = 1 / (2 π f C) (references.md X1)
+    r = lampbook(*args)
+    assert r.returncode == 0, r.stderr
+    data = json.loads(r.stdout)
+    if field:
+        assert data["values"][field] == pytest.approx(si, rel=1e-9)
+
+
+def test_ambiguous_comma_refused_with_both_readings() -> None:
+    r = lampbook("ripple", "--capacitance", "2,200 uF")
+    assert r.returncode == 2 and len(r.stderr.strip().splitlines()) == 1
+    assert "2.2 µF" in r.stderr and "2.2 mF" in r.stderr and "--capacitance" in r.stderr
+
+
+def test_preferred_takes_units() -> None:
+    r = lampbook("preferred", "--value", "4.7 kΩ", "--series", "E12")
+    assert r.returncode == 0, r.stderr
+    assert "Nearest            4.7 kΩ" in r.stdout
+    r = lampbook("preferred", "--value", "100n", "--json")
+    assert json.loads(r.stdout)["display"]["nearest"] == "100 nF"
+
+
+@pytest.mark.parametrize("name", ["dropper", "string", "ripple", "wire", "module", "preferred", "mains", "quantity"])
+def test_reports_fit_80_columns_unless_wide(name: str) -> None:
+    r = lampbook(name)
+    assert r.returncode == 0
+    assert max(len(line) for line in r.stdout.splitlines()) <= 80
+    assert lampbook(name, "--wide").returncode == 0
+
+
+def test_check_report_fits_80_columns_and_counts_right() -> None:
+    r = lampbook("check", os.path.join(DESIGNS, "unsafe-demo.toml"))
+    lines = r.stdout.splitlines()
+    assert max(len(line) for line in lines) <= 80
+    assert not any(" 1 warnings" in line for line in lines)
+    wide = lampbook("check", os.path.join(DESIGNS, "unsafe-demo.toml"), "--wide")
+    assert max(len(line) for line in wide.stdout.splitlines()) > 80
+
+
+def test_new_refuses_a_file_and_quotes_the_name(tmp_path: object) -> None:
+    import pathlib
+
+    import yaml
+
+    base = pathlib.Path(str(tmp_path))
+    (base / "taken").write_text("x")
+    r = lampbook("new", str(base / "taken"))
+    assert r.returncode == 2 and "is a file" in r.stderr and "Traceback" not in r.stderr
+    name = 'Crew: "Stage #2" lights'
+    r = lampbook("new", str(base / "hb"), "--name", name)
+    assert r.returncode == 0, r.stderr
+    text = (base / "hb" / "mkdocs.yml").read_text(encoding="utf-8")
+    loader = yaml.SafeLoader
+    loader.add_multi_constructor("", lambda *_: None)  # other tags are not under test
+    assert yaml.load(text, Loader=loader)["site_name"] == name
+    assert not [p for p in base.iterdir() if p.name.startswith(".")]  # no temporary folder left

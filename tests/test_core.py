@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import json
 import math
 
 import pytest
@@ -233,3 +234,119 @@ def test_accepted_inputs_give_finite_results_rejected_raise_input_error(
 def test_junk_never_raises_other_exceptions(name: str, junk: dict[str, object]) -> None:
     ans = compute(name, junk)
     assert isinstance(ans["ok"], bool)
+
+
+# --- issue 14: one state per answer, rows that say why, strict JSON ----------------------------
+
+
+def _strict(text: str) -> object:
+    def refuse(name: str) -> object:
+        raise AssertionError(f"{name} in JSON")
+
+    return json.loads(text, parse_constant=refuse)
+
+
+def test_dropper_rows_follow_the_bank_X8_X1() -> None:
+    # 230 V 50 Hz, 20 mA target, 0.1 µF stock: the bank is 5 × 0.1 µF = 0.5 µF and every
+    # row is for it. Charge balance I = 4 f C (Vpk - Vbus - 2 Vd) (references.md X8);
+    # Xc = 1 / (2 π f C) (references.md X1); RC discharge t = R C ln(V0 / V) (circuit theory).
+    ans = compute(
+        "dropper",
+        {"region": "230-50", "target_current": "20 mA", "stock_capacitance": "0.1 uF", "bus_voltage": "100 V"},
+    )
+    assert ans["ok"], ans
+    v = ans["values"]
+    c = 5 * 0.1e-6
+    assert v["bank_count"] == 5
+    assert v["led_current_avg"] == pytest.approx(4 * 50 * c * (230 * math.sqrt(2) - 100 - 1.8), rel=1e-9)
+    assert v["led_current_avg"] == pytest.approx(ans["rows"][-1]["led_current_avg"], rel=1e-12)
+    assert v["reactance"] == pytest.approx(1 / (2 * math.pi * 50 * c), rel=1e-9)
+    c_hi, pk_hi = c * 1.1, 253 * math.sqrt(2)
+    assert v["bleeder_discharge_time"] == pytest.approx(v["bleeder"] * c_hi * math.log(pk_hi / 34), rel=1e-9)
+    assert v["bleeder_discharge_time"] <= 1.0
+    assert any("for the bank" in n for n in ans["notes"])
+
+
+def test_dropper_without_series_resistor_says_so() -> None:
+    ans = compute("dropper", {"series_resistance": "0 Ω"})
+    assert ans["ok"]
+    assert ans["values"]["switch_on_peak"] is None and ans["values"]["pulse_energy"] is None
+    assert "not limited" in ans["display"]["switch_on_peak"]
+    assert "does not apply" in ans["display"]["pulse_energy"]
+    assert any("no series resistor" in w for w in ans["warnings"])
+
+
+def test_dropper_impossible_operating_point_is_warned() -> None:
+    # 22 µF on 230 V into a 100 V bus: about 1 A and hundreds of watts in a 100 Ω resistor (X8, I²R)
+    ans = compute("dropper", {"capacitance": "22 uF", "series_resistance": "100 Ω"})
+    assert ans["ok"]
+    assert ans["values"]["series_resistor_power"] > 100
+    assert any("series resistor would dissipate" in w for w in ans["warnings"])
+    assert any("into the LEDs" in w for w in ans["warnings"])
+    quiet = compute("dropper", {})
+    assert not any("would dissipate" in w for w in quiet["warnings"])
+
+
+@pytest.mark.parametrize(
+    ("value", "series", "nearest", "up", "down"),
+    [
+        # IEC 60063 tables (references.md E1-E3)
+        ("4.7k", "E24", "4.7 kΩ", "4.7 kΩ", "4.7 kΩ"),
+        ("4.7 kΩ", "E24", "4.7 kΩ", "4.7 kΩ", "4.7 kΩ"),
+        ("4k3", "E12", "4.7 kΩ", "4.7 kΩ", "3.9 kΩ"),
+        ("220 nF", "E6", "220 nF", "220 nF", "220 nF"),
+        ("2u5", "E6", "2.2 µF", "3.3 µF", "2.2 µF"),
+        ("0.22", "E24", "0.22", "0.22", "0.22"),
+        ("4200", "E24", "4300", "4300", "3900"),
+    ],
+)
+def test_preferred_answers_in_the_unit_given_IEC60063(
+    value: str, series: str, nearest: str, up: str, down: str
+) -> None:
+    ans = compute("preferred", {"value": value, "series": series})
+    assert ans["ok"], ans
+    assert (ans["display"]["nearest"], ans["display"]["up"], ans["display"]["down"]) == (nearest, up, down)
+
+
+@pytest.mark.parametrize(
+    ("value", "needle"), [("2,200", "thousands comma"), ("0", "above zero"), ("banana", "such as")]
+)
+def test_preferred_refusals(value: str, needle: str) -> None:
+    ans = compute("preferred", {"value": value})
+    assert not ans["ok"] and ans["errors"][0]["field"] == "value"
+    assert needle in ans["errors"][0]["message"]
+
+
+def test_blank_required_value_is_an_error_not_the_default() -> None:
+    ans = compute("dropper", {"capacitance": " "})
+    assert not ans["ok"]
+    assert [e["field"] for e in ans["errors"]] == ["capacitance"]
+    assert "blank" in ans["errors"][0]["message"]
+    assert [e["field"] for e in compute("quantity", {"text": " "})["errors"]] == ["text"]
+    assert [e["field"] for e in compute("preferred", {"value": ""})["errors"]] == ["value"]
+    # an optional field left blank is simply absent; a mains field takes the preset
+    assert compute("dropper", {"bleeder": "", "mains_tolerance": " "})["ok"]
+
+
+def test_unknown_region_is_one_error() -> None:
+    ans = compute("dropper", {"region": "230-60"})
+    assert [e["field"] for e in ans["errors"]] == ["region"]
+
+
+def test_cross_field_bounds() -> None:
+    hot_cold = compute("string", {"temperature_cold": "80 °C", "temperature_hot": "20 °C"})
+    assert [e["field"] for e in hot_cold["errors"]] == ["temperature_cold"]
+    window = compute("string", {"supply": "cc", "driver_v_min": "40 V", "driver_v_max": "9 V"})
+    assert [e["field"] for e in window["errors"]] == ["driver_v_min"]
+    pts = compute("module", {"i1": "20 mA", "v1": "2.9 V", "i2": "20 mA", "v2": "3 V"})
+    assert [e["field"] for e in pts["errors"]] == ["i2"]
+
+
+def test_handle_gives_strict_json_with_null_and_a_note() -> None:
+    from lampcalc.api import finite_json
+
+    found: list[str] = []
+    assert finite_json({"a": math.inf, "b": [1.0, math.nan]}, "", found) == {"a": None, "b": [1.0, None]}
+    assert found == ["a", "b[1]"]
+    data = _strict(handle(json.dumps({"kind": "compute", "calculator": "dropper", "inputs": {"series_resistance": 0}})))
+    assert isinstance(data, dict) and data["ok"]

@@ -1,10 +1,14 @@
 """Pyodide tier: the core's unit and reference tests run again inside Pyodide
-on Node (the same npm package the site ships), with the core installed from
-the very wheel the site serves and pytest from its pure wheels."""
+on Node (the same npm package the site ships), with the core imported from the
+very wheel the site serves, in the engine the site ships: its trimmed standard
+library, with the rest of the library behind it only for pytest, and a check
+that the core itself imported nothing from that rest."""
 
 from __future__ import annotations
 
 import ast
+import json
+import os
 import re
 import shutil
 import subprocess
@@ -12,9 +16,9 @@ import sys
 from pathlib import Path
 
 import pytest
-from sites import ROOT
+from sites import CACHE, ROOT, RUNTIME
 
-from lampbook.bundle import build_wheel
+from lampbook import bundle
 
 pytestmark = pytest.mark.pyodide
 
@@ -47,7 +51,7 @@ def test_every_core_test_file_is_found() -> None:
     assert "test_cli.py" not in found and "test_plugin.py" not in found
 
 
-def test_core_suite_inside_pyodide(tmp_path: Path) -> None:
+def test_core_suite_inside_the_trimmed_engine(tmp_path: Path) -> None:
     files = core_test_files()
     native = subprocess.run(
         [sys.executable, "-m", "pytest", "--collect-only", "-q", "-p", "no:cacheprovider", *files],
@@ -61,29 +65,41 @@ def test_core_suite_inside_pyodide(tmp_path: Path) -> None:
     node = shutil.which("node")
     assert node, "node is needed (the machine image has it)"
     assert any(WHEELS.glob("pytest-*.whl")), "pytest wheels missing: `make test` downloads them"
-    wheel = build_wheel(tmp_path)
+    # the engine as the plugin builds it for a site without design files
+    full = bundle.compiled_stdlib(RUNTIME, CACHE)
+    bundle.install_engine(tmp_path, RUNTIME, full, CACHE)
+    trim = bundle.trim_engine_stdlib(tmp_path, CACHE, [], [])
+    assert trim["files"] < trim["of"] / 2, trim
+    wheel = next((tmp_path / "engine").glob("lampcalc-*.whl"))
     r = subprocess.run(
         [
             node,
             str(ROOT / "tests" / "pyodide" / "run.mjs"),
-            str(ROOT / "node_modules" / "pyodide"),
+            str(RUNTIME),
             str(WHEELS),
             str(wheel),
             str(ROOT / "tests"),
+            "--engine",
+            str(tmp_path / "engine"),
+            str(full),
             *files,
         ],
         capture_output=True,
         text=True,
         timeout=900,
+        env={**os.environ, "LAMPBOOK_CORE_MODULES": json.dumps(bundle.exercise(wheel, [])["modules"])},
     )
     out = r.stdout + r.stderr
     assert "emscripten" in out, out[-3000:]
+    assert re.search(r"trimmed library: \d+ core modules imported, \d+ calculators answered", out), out[-3000:]
+    assert "lampcalc from /lib/lampcalc-" in out, out[-3000:]  # the wheel itself, as the page imports it
+    assert "core imports outside the trimmed library: []" in out, out[-3000:]
     m = re.search(r"(\d+) passed", out)
     assert r.returncode == 0 and m, out[-3000:]
     assert int(m.group(1)) == int(collected.group(1)), (
         "every test the core's files hold passes in Pyodide too\n" + out[-3000:]
     )
-    assert "failed" not in out.splitlines()[-1], out[-3000:]
+    assert "failed" not in out.splitlines()[-2], out[-3000:]
 
 
 def test_same_test_tools_native_and_in_pyodide() -> None:

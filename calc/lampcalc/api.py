@@ -8,6 +8,7 @@ with the field, the value and what was expected.
 from __future__ import annotations
 
 import json
+import math
 from collections.abc import Mapping
 from typing import Any
 
@@ -32,11 +33,99 @@ def compute(name: str, inputs: Mapping[str, object]) -> dict[str, Any]:
         return {"calculator": name, "ok": False, "errors": _errors(e)}
 
 
+#: Largest request read (characters) and deepest nesting of arrays and objects.
+MAX_REQUEST = 2_000_000
+MAX_DEPTH = 64
+
+
+def _refusal(field: str, value: str, expected: str, message: str) -> str:
+    return json.dumps(
+        {"ok": False, "errors": [{"field": field, "value": value, "expected": expected, "message": message}]}
+    )
+
+
+def _too_deep(text: str) -> bool:
+    """Whether brackets nest deeper than MAX_DEPTH outside strings (checked
+    before parsing, so a hostile request costs one pass, not the stack)."""
+    depth = 0
+    in_str = esc = False
+    for ch in text:
+        if in_str:
+            if esc:
+                esc = False
+            elif ch == "\\":
+                esc = True
+            elif ch == '"':
+                in_str = False
+        elif ch == '"':
+            in_str = True
+        elif ch in "[{":
+            depth += 1
+            if depth > MAX_DEPTH:
+                return True
+        elif ch in "]}":
+            depth -= 1
+    return False
+
+
+def finite_json(obj: Any, path: str = "", found: list[str] | None = None) -> Any:
+    """``obj`` with every NaN or infinite float replaced by None; the paths of
+    the replaced values are appended to ``found``. Strict JSON parsers read the
+    result."""
+    if isinstance(obj, float) and not math.isfinite(obj):
+        if found is not None:
+            found.append(path or "(value)")
+        return None
+    if isinstance(obj, dict):
+        return {k: finite_json(v, f"{path}.{k}" if path else str(k), found) for k, v in obj.items()}
+    if isinstance(obj, (list, tuple)):
+        return [finite_json(v, f"{path}[{i}]", found) for i, v in enumerate(obj)]
+    return obj
+
+
+def dumps(obj: dict[str, Any], **kw: Any) -> str:
+    """Strict JSON: an unbounded or undefined number becomes null, and its path
+    is listed under "unbounded" with a note saying what null means there."""
+    found: list[str] = []
+    clean = finite_json(obj, "", found)
+    if found:
+        clean["unbounded"] = found
+        notes = clean.get("notes")
+        note = "null in the JSON marks a quantity that is unbounded or not defined here: " + ", ".join(found[:8])
+        if isinstance(notes, list):
+            notes.append(note)
+        else:
+            clean.setdefault("json_note", note)
+    return json.dumps(clean, allow_nan=False, **kw)
+
+
 def handle(text: str) -> str:
     """Request kinds: {"kind": "compute", "calculator": ..., "inputs": {...}},
     {"kind": "describe"} and the design kinds of :mod:`lampcalc.design_api`."""
+    if not isinstance(text, str):
+        return _refusal("request", type(text).__name__, "JSON text", "request must be JSON text")
+    if len(text) > MAX_REQUEST:
+        return _refusal(
+            "request", f"{len(text)} characters", f"at most {MAX_REQUEST} characters", "request is too large"
+        )
+    if _too_deep(text):
+        return _refusal("request", text[:80], f"JSON nested at most {MAX_DEPTH} deep", "request is nested too deeply")
     try:
-        req = json.loads(text)
+        return _handle(text)
+    except RecursionError:
+        return _refusal("request", text[:80], f"JSON nested at most {MAX_DEPTH} deep", "request is nested too deeply")
+    except Exception as e:  # the page must get an answer, never a dead worker
+        return _refusal(
+            "",
+            "",
+            "",
+            f"internal error, please report it with the inputs that caused it: {type(e).__name__}: {e}",
+        )
+
+
+def _handle(text: str) -> str:
+    try:
+        req = json.loads(text, parse_constant=_no_constant)
     except ValueError as e:
         return json.dumps(
             {
@@ -60,7 +149,7 @@ def handle(text: str) -> str:
         )
     kind = req.get("kind", "compute")
     if kind == "describe":
-        return json.dumps(
+        return dumps(
             {
                 "ok": True,
                 "calculators": [describe(c) for c in CALCULATORS.values()],
@@ -72,7 +161,42 @@ def handle(text: str) -> str:
         inputs = req.get("inputs", {})
         if not isinstance(inputs, dict):
             inputs = {}
-        return json.dumps(compute(str(req.get("calculator", "")), inputs), sort_keys=True)
+        return dumps(compute(str(req.get("calculator", "")), inputs), sort_keys=True)
     from . import design_api
 
-    return json.dumps(design_api.handle(kind, req), sort_keys=True)
+    bad = _study_options(req)
+    if bad:
+        return bad
+    return dumps(design_api.handle(str(kind), req), sort_keys=True)
+
+
+def _study_options(req: Mapping[str, Any]) -> str | None:
+    """``samples`` and ``seed`` of a study request: whole numbers in bounds, or
+    one refusal naming the field (the work a request may ask for is bounded)."""
+    from .fixture.design import MAX_SAMPLES
+
+    for name, lo, hi in (("samples", 1, MAX_SAMPLES), ("seed", 0, 2**63 - 1)):
+        x = req.get(name)
+        if x is None:
+            continue
+        if isinstance(x, bool) or not isinstance(x, int) or not lo <= x <= hi:
+            shown = str(x)[:40]
+            expected = f"a whole number from {lo} to {hi}"
+            return dumps(
+                {
+                    "ok": False,
+                    "errors": [
+                        {
+                            "field": name,
+                            "value": shown,
+                            "expected": expected,
+                            "message": f"{name}: got {shown}; expected {expected}",
+                        }
+                    ],
+                }
+            )
+    return None
+
+
+def _no_constant(name: str) -> float:
+    raise ValueError(f"{name} is not a number JSON allows")

@@ -190,7 +190,14 @@ def _module(v: V) -> Result:
     notes = []
     if all(p is not None for p in pts):
         i1, v1, i2, v2 = (p for p in pts if p is not None)
-        m = LedModule.from_points(i1, v1, i2, v2, current_ref=i, **kw)
+        try:
+            m = LedModule.from_points(i1, v1, i2, v2, current_ref=i, **kw)
+        except InputError as e:
+            # name the options the user typed, not the core's internal pair
+            field = "v2" if "voltage" in e.expected else "i2"
+            shown = f"{format_value(i1, 'current')}, {format_value(v1, 'voltage')} and "
+            shown += f"{format_value(i2, 'current')}, {format_value(v2, 'voltage')}"
+            raise InputError(field, shown, f"{e.expected} (from i1, v1 and i2, v2)") from None
         notes.append("V0 and Rd fitted through the two datasheet points.")
     elif any(p is not None for p in pts):
         raise InputError("i1", "partly given", "all four of i1, v1, i2, v2, or none")
@@ -278,6 +285,12 @@ def _string(v: V) -> Result:
     i = f(v, "current")
     m = module_from(v, current_ref=i)
     t_cold, t_hot = f(v, "temperature_cold"), f(v, "temperature_hot")
+    if t_cold > t_hot:
+        raise InputError(
+            "temperature_cold",
+            format_value(t_cold, "temperature"),
+            f"a temperature at or below temperature_hot ({format_value(t_hot, 'temperature')})",
+        )
     warnings: list[str] = []
     notes: list[str] = []
     if i > m.current_max:
@@ -313,6 +326,12 @@ def _string(v: V) -> Result:
             )
         if pick.current_max > m.current_max:
             warnings.append("At the worst corner the string current exceeds the module's maximum.")
+        if pick.resistor_power > 3.0:
+            warnings.append(
+                f"The ballast would dissipate {format_value(pick.resistor_power, 'power')} at the worst corner: "
+                "beyond the small resistors used for ballast (common practice: up to about 3 W). "
+                "Use more modules in series or a lower supply."
+            )
         notes.append("Worst-case high: high supply, low Vf, hot. Low: low supply, high Vf, cold.")
         values: dict[str, Value] = {
             "series": float(pick.series),
@@ -341,6 +360,12 @@ def _string(v: V) -> Result:
         return Result(values, rows, tuple(notes), tuple(warnings), caution_text.LOW_VOLTAGE)
     if supply == "cc":
         mods = opt(v, "modules")
+        if f(v, "driver_v_min") >= f(v, "driver_v_max"):
+            raise InputError(
+                "driver_v_min",
+                format_value(f(v, "driver_v_min"), "voltage"),
+                f"a voltage below driver_v_max ({format_value(f(v, 'driver_v_max'), 'voltage')})",
+            )
         cc = strings.cc_options(
             m,
             f(v, "driver_current"),
@@ -392,6 +417,11 @@ def _string(v: V) -> Result:
         )
     frac = f(v, "bus_fraction")
     pick_d = min(dopts, key=lambda o: abs(o.fraction - frac))
+    if pick_d.current_high_mains > m.current_max:
+        warnings.append(
+            f"At high mains the string current reaches {format_value(pick_d.current_high_mains, 'current')}, "
+            f"above the module's maximum {format_value(m.current_max, 'current')}."
+        )
     notes.append(
         "A higher bus needs a smaller dropper and wastes less in it, but the current follows the mains more "
         "steeply (sensitivity = Vpk / (Vpk - Vbus - 2 Vd)) and a low-mains dip dims it more."
@@ -574,6 +604,7 @@ def _dropper(v: V) -> Result:
     stock = opt(v, "stock_capacitance")
     rows: list[dict[str, Value]] = []
     bank = None
+    notes_bank: list[str] = []
     if stock:
         need = c_need if c_need else c
         if need / stock > 1000:
@@ -591,6 +622,18 @@ def _dropper(v: V) -> Result:
                     "led_current_avg": drop.average_current(vn, fr, k * stock, vbus, vd),
                 }
             )
+        # every row below is for the bank that will be built, not the capacitance typed
+        c = bank * stock
+        i_avg = drop.average_current(vn, fr, c, vbus, vd)
+        notes_bank.append(
+            f"Every value above is for the bank: {int(bank)} × {format_value(stock, 'capacitance')} = "
+            f"{format_value(c, 'capacitance')}."
+        )
+    elif c_need:
+        notes_bank.append(
+            f"The values above are for the {format_value(c, 'capacitance')} entered; the target needs "
+            f"{format_value(c_need, 'capacitance')} (give a stock value to see the bank)."
+        )
     c_hi = c * (1 + ctol)
     pk_hi = math.sqrt(2) * vhi
     t_dis, v_lim = f(v, "discharge_time"), f(v, "discharge_voltage")
@@ -603,6 +646,26 @@ def _dropper(v: V) -> Result:
             f"The {format_value(bleeder, 'resistance')} bleeder takes {t_b:.2f} s, over the {t_dis:g} s target."
         )
     i_cap_hi = drop.capacitor_rms_current(vhi, fr, c_hi, vbus, vd)
+    i_led_hi = drop.average_current(vhi, fr, c_hi, vbus, vd)
+    p_series = i_cap_hi**2 * rs
+    shown: dict[str, str] = {}
+    if rs == 0:
+        shown["switch_on_peak"] = "not limited (no series resistor)"
+        shown["pulse_energy"] = "does not apply (no series resistor)"
+        warnings.append(
+            "With no series resistor nothing but the wiring limits the switch-on current: "
+            "the capacitor, bridge and switch take the full mains crest. Fit a surge resistor."
+        )
+    if p_series > 2.0:
+        warnings.append(
+            f"The series resistor would dissipate {format_value(p_series, 'power')} at high mains: far beyond "
+            "the small resistors used here (common practice: under 1 W). Check the capacitance."
+        )
+    if i_led_hi > 0.2:
+        warnings.append(
+            f"{format_value(i_led_hi, 'current')} into the LEDs at high mains is beyond what a dropper feeds "
+            "loose LED modules (common practice: tens of mA). Check the capacitance against the modules' maximum."
+        )
     notes = (
         "Average LED current by charge balance: I = 4·f·C·(Vpk − Vbus − 2·Vd); assumes ideal diodes, a bus held "
         "steady by a large smoothing capacitor and no series resistance. The naive V/Xc is the rms current into a "
@@ -631,11 +694,11 @@ def _dropper(v: V) -> Result:
         "bleeder_power": vhi**2 / r_b,
         "bleeder_working_voltage": pk_hi,
         "bleeder_parts": float(max(1, math.ceil(pk_hi / 200.0))),
-        "switch_on_peak": drop.switch_on_peak(pk_hi, rs),
-        "pulse_energy": drop.pulse_energy(c_hi, pk_hi),
-        "series_resistor_power": i_cap_hi**2 * rs,
+        "switch_on_peak": drop.switch_on_peak(pk_hi, rs) if rs > 0 else None,
+        "pulse_energy": drop.pulse_energy(c_hi, pk_hi) if rs > 0 else None,
+        "series_resistor_power": p_series,
     }
-    return Result(vals, tuple(rows), notes, tuple(warnings))
+    return Result(vals, tuple(rows), (*notes, *notes_bank), tuple(warnings), display=shown)
 
 
 DROPPER = Calculator(
@@ -996,10 +1059,33 @@ WIRE = Calculator(
 # --- preferred values ---------------------------------------------------------------
 
 
+_PREFERRED_EXPECTED = (
+    "a resistance or capacitance above zero, with or without its unit, such as '4200', '4.7k', '4k7', "
+    "'4.7 kΩ', '0.22', '220 nF' or '2u2'"
+)
+
+
+def read_preferred(text: str) -> tuple[float, str]:
+    """A value for the preferred-values lookup and the kind it was written as:
+    a plain number, a resistance or a capacitance."""
+    for kind in ("number", "resistance", "capacitance"):
+        try:
+            x = parse(text, kind, "value")
+        except InputError as e:
+            if kind == "number" and "reads one way" in e.expected:
+                raise  # an ambiguous comma is refused, never guessed at as another kind
+            continue
+        if not x > 0:
+            raise InputError("value", text, _PREFERRED_EXPECTED)
+        return x, kind
+    raise InputError("value", text, _PREFERRED_EXPECTED)
+
+
 def _preferred(v: V) -> Result:
-    x = f(v, "value")
+    x, kind = read_preferred(str(v["value"]))
     p = preferred(x, str(v["series"]))
-    return Result({"nearest": p.nearest, "up": p.up, "down": p.down, "error": p.nearest / x - 1})
+    dims = {"nearest": kind, "up": kind, "down": kind}
+    return Result({"nearest": p.nearest, "up": p.up, "down": p.down, "error": p.nearest / x - 1}, dims=dims)
 
 
 PREFERRED = Calculator(
@@ -1010,12 +1096,10 @@ PREFERRED = Calculator(
         Param(
             "value",
             "Value",
-            "count",
+            "text",
             "4200",
-            "A plain number (ohms, farads...).",
-            0.0,
-            1e15,
-            exclusive_min=True,
+            "A resistance or capacitance, with or without its unit: '4200', '4.7k', '4k7', '4.7 kΩ', '220 nF', "
+            "'2u2'. The answer is in the same unit.",
         ),
         Param("series", "Series", "choice", "E24", "", choices=tuple(SERIES)),
     ),

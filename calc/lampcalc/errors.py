@@ -8,6 +8,13 @@ all say the same thing in the same words.
 from __future__ import annotations
 
 
+def printable(value: object, limit: int = 60) -> str:
+    """A value as a message shows it: on one line, control characters escaped,
+    cut to ``limit`` characters."""
+    text = "".join(ch if ch.isprintable() else repr(ch)[1:-1] for ch in str(value))
+    return text if len(text) <= limit else text[: limit - 1] + "…"
+
+
 class CalcError(Exception):
     """Base of every error the core raises on purpose."""
 
@@ -27,8 +34,8 @@ class InputError(CalcError, ValueError):
 
     @property
     def message(self) -> str:
-        shown = self.value if isinstance(self.value, str) else repr(self.value)
-        return f"{self.field}: got {shown!s}; expected {self.expected}"
+        shown = self.value if isinstance(self.value, str) and self.value.strip() else repr(self.value)
+        return f"{self.field}: got {printable(shown)}; expected {self.expected}"
 
     def as_dict(self) -> dict[str, str]:
         return {

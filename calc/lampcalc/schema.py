@@ -16,7 +16,7 @@ from dataclasses import dataclass
 from . import cautions
 from .errors import InputError, InputErrors
 from .quantities.regions import PRESETS
-from .quantities.units import format_value, parse
+from .quantities.units import dimension, format_value, parse
 
 Value = float | str | None
 
@@ -55,6 +55,10 @@ class Result:
     notes: tuple[str, ...] = ()
     warnings: tuple[str, ...] = ()
     cautions: tuple[str, ...] | None = None  # None: the calculator's own
+    # what to show for an output instead of its formatted value (a row that does
+    # not apply says why rather than vanishing)
+    display: Mapping[str, str] | None = None
+    dims: Mapping[str, str] | None = None  # an output's dimension when it follows the input's
 
 
 @dataclass(frozen=True)
@@ -104,7 +108,12 @@ def parse_inputs(calc: Calculator, raw: Mapping[str, object]) -> dict[str, Value
     region_key = None
     for p in calc.params:
         given = raw.get(p.name)
-        if given is None or (isinstance(given, str) and given.strip() == ""):
+        if isinstance(given, str) and given.strip() == "":
+            if p.default is not None:
+                errors.append(InputError(p.name, given, _blank_expected(p)))
+                continue
+            given = None
+        if given is None:
             given = p.default
         if given is None:
             out[p.name] = None
@@ -134,13 +143,16 @@ def parse_inputs(calc: Calculator, raw: Mapping[str, object]) -> dict[str, Value
     if region_key and region_key != "custom":
         preset = PRESETS[region_key]
         for name, value in (("mains_voltage", preset.voltage), ("frequency", preset.frequency)):
-            if name in known and raw.get(name) in (None, ""):
+            if name in known and _blank(raw.get(name)):
                 out[name] = value
-        if "mains_tolerance" in known and raw.get("mains_tolerance") in (None, ""):
+        if "mains_tolerance" in known and _blank(raw.get("mains_tolerance")):
             out["mains_tolerance"] = max(preset.plus, preset.minus)
             out["mains_plus"] = preset.plus
             out["mains_minus"] = preset.minus
+    region_failed = any(e.field == "region" for e in errors)
     for name in ("mains_voltage", "frequency"):
+        if region_failed:
+            break  # one problem, one line: the region is what is wrong
         if name in known and out.get(name) is None and not any(e.field == name for e in errors):
             errors.append(InputError(name, "", "a value, or a region preset other than custom"))
     if "mains_tolerance" in known and out.get("mains_tolerance") is not None and "mains_plus" not in out:
@@ -148,6 +160,21 @@ def parse_inputs(calc: Calculator, raw: Mapping[str, object]) -> dict[str, Value
     if errors:
         raise errors[0] if len(errors) == 1 else InputErrors(errors)
     return out
+
+
+def _blank(x: object) -> bool:
+    return x is None or (isinstance(x, str) and not x.strip())
+
+
+def _blank_expected(p: Param) -> str:
+    if p.dim in ("choice", "region"):
+        allowed = p.choices if p.dim == "choice" else (*PRESETS, "custom")
+        what = "one of " + ", ".join(allowed)
+    elif p.dim == "text":
+        what = f"a value such as '{p.default}'"
+    else:
+        what = dimension(p.dim).expected
+    return f"{what}; a blank is not read as the default ('{p.default}': leave the option out for that)"
 
 
 def evaluate(calc: Calculator, raw: Mapping[str, object]) -> Result:
@@ -173,14 +200,34 @@ def to_json(calc: Calculator, result: Result) -> dict[str, object]:
             return None
         return v
 
+    shown = dict(result.display or {})
+    dims = dict(result.dims or {})
+    notes = list(result.notes)
+    for o in calc.outputs:
+        v = result.values.get(o.name)
+        if isinstance(v, float) and not math.isfinite(v) and o.name not in shown:
+            shown[o.name] = "unbounded" if v > 0 else "not defined"
+            notes.append(f"{o.label}: {shown[o.name]} here (given as null in the JSON).")
+
+    def display(o: Output, v: Value) -> str:
+        if o.name in shown:
+            return shown[o.name]
+        return format_output(Output(o.name, o.label, dims.get(o.name, o.dim)), v)
+
     return {
         "calculator": calc.name,
         "ok": True,
         "values": {o.name: clean(result.values.get(o.name)) for o in calc.outputs},
-        "display": {o.name: format_output(o, result.values.get(o.name)) for o in calc.outputs},
+        "display": {o.name: display(o, result.values.get(o.name)) for o in calc.outputs},
         "rows": [{c.name: clean(r.get(c.name)) for c in calc.columns} for r in result.rows],
-        "rows_display": [{c.name: format_output(c, r.get(c.name)) for c in calc.columns} for r in result.rows],
-        "notes": list(result.notes),
+        "rows_display": [
+            {
+                c.name: format_output(Output(c.name, c.label, dims.get(c.name, c.dim)), r.get(c.name))
+                for c in calc.columns
+            }
+            for r in result.rows
+        ],
+        "notes": notes,
         "warnings": list(result.warnings),
         "cautions": list(calc.cautions if result.cautions is None else result.cautions),
     }

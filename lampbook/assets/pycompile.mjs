@@ -1,33 +1,42 @@
-// Byte-compile Pyodide's standard library with Pyodide itself (build time, on Node).
-// usage: node pycompile.mjs PYODIDE_DIR IN_ZIP OUT_ZIP
+// Byte-compile Python files in a zip with Pyodide itself (build time, on Node).
+// usage: node pycompile.mjs PYODIDE_DIR IN_ZIP OUT_ZIP [--keep-source]
 // Each .py becomes a sourceless .pyc (unchecked-hash, so no timestamps) at the same path;
-// files that do not compile are kept as source. The output is deterministic.
+// with --keep-source the .py stays beside it (zipimport prefers the .pyc and tracebacks
+// still show the source). Files that do not compile are kept as source. The output is
+// deterministic.
 import { readFileSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
 import { pathToFileURL } from "node:url";
 
-const [, , dir, inZip, outZip] = process.argv;
+const [, , dir, inZip, outZip, flag] = process.argv;
 const { loadPyodide } = await import(pathToFileURL(join(dir, "pyodide.mjs")).href);
 const py = await loadPyodide({ indexURL: dir.endsWith("/") ? dir : dir + "/" });
 py.FS.writeFile("/tmp/in.zip", readFileSync(inZip));
+py.globals.set("keep_source", flag === "--keep-source");
 const kept = py.runPython(`
 import importlib.util, importlib._bootstrap_external as ext, zipfile
 kept = []
+def put(out, name, data):
+    z = zipfile.ZipInfo(name, (1980, 1, 1, 0, 0, 0))
+    z.compress_type = zipfile.ZIP_DEFLATED
+    z.external_attr = 0o644 << 16
+    out.writestr(z, data)
 with zipfile.ZipFile("/tmp/in.zip") as src, zipfile.ZipFile("/tmp/out.zip", "w", zipfile.ZIP_DEFLATED) as out:
     for info in sorted(src.infolist(), key=lambda i: i.filename):
         data = src.read(info)
         name = info.filename
         if name.endswith(".py"):
+            where = ("/lib/python3.14/" if not keep_source else "") + name
             try:
-                code = compile(data, "/lib/python3.14/" + name, "exec", dont_inherit=True)
+                code = compile(data, where, "exec", dont_inherit=True)
             except SyntaxError:
                 kept.append(name)
             else:
+                if keep_source:
+                    put(out, name, data)
                 data = bytes(ext._code_to_hash_pyc(code, importlib.util.source_hash(data), False))
                 name = name[:-3] + ".pyc"
-        z = zipfile.ZipInfo(name, (1980, 1, 1, 0, 0, 0))
-        z.compress_type = zipfile.ZIP_DEFLATED
-        out.writestr(z, data)
+        put(out, name, data)
 len(kept)
 `);
 writeFileSync(outZip, py.FS.readFile("/tmp/out.zip"));

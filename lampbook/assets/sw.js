@@ -1,15 +1,37 @@
 // lampbook service worker: precaches the whole handbook so it opens and computes offline.
-// The file list and version are written at build time; a new build gets a new cache as a whole.
+// The file list, the version and the digests of the engine's files are written at build time;
+// a new build gets a new cache as a whole.
 const PRECACHE = /*LAMPBOOK_PRECACHE*/null;
 const CACHE = "lampbook-" + PRECACHE.version;
+const STAGED = "lampbook-staged"; // the engine's own downloads, handed over by its worker
 const scope = self.registration.scope;
+
+async function sha256(response) {
+  const digest = await crypto.subtle.digest("SHA-256", await response.arrayBuffer());
+  return Array.from(new Uint8Array(digest), (b) => b.toString(16).padStart(2, "0")).join("");
+}
+
+// An engine file already downloaded (by the engine on this visit, or kept by an earlier build)
+// is taken over when its digest is this build's; anything else is fetched, revalidating
+// against the server so a new build never stores an old file under its new name
+// (an unchanged file costs a 304, not a second download).
+async function precache(cache) {
+  const fetchList = [];
+  for (const f of PRECACHE.files) {
+    const url = new URL(f, scope).href;
+    const want = PRECACHE.digests[f];
+    const have = want && (await caches.match(url));
+    if (have && (await sha256(have.clone())) === want) await cache.put(url, have);
+    else fetchList.push(new Request(url, { cache: "no-cache" }));
+  }
+  await cache.addAll(fetchList);
+}
 
 self.addEventListener("install", (event) => {
   event.waitUntil(
     caches.open(CACHE)
-      // revalidate against the server so a new build never stores an old file under its new name
-      // (an unchanged file costs a 304, not a second download)
-      .then((c) => c.addAll(PRECACHE.files.map((f) => new Request(new URL(f, scope).href, { cache: "no-cache" }))))
+      .then(precache)
+      .then(() => caches.delete(STAGED))
       .then(() => self.skipWaiting()),
   );
 });

@@ -30,7 +30,10 @@ function startEngine() {
   if (worker || !site.engine || typeof Worker === "undefined") return;
   engineState = "loading";
   setStatus();
-  worker = new Worker(new URL("assets/lampbook/worker.js", root), { type: "module" });
+  // started early by the page's head (the plugin writes it) when it could be; else here
+  const early = window.lbEngine && !window.lbEngine.taken ? window.lbEngine : null;
+  if (early) early.taken = true;
+  worker = early ? early.worker : new Worker(new URL("assets/lampbook/worker.js", root), { type: "module" });
   const timer = setTimeout(() => {
     if (engineState === "loading") {
       engineState = "failed";
@@ -47,7 +50,6 @@ function startEngine() {
       engineState = "ready";
       performance.mark("lb-engine-ready");
       setStatus();
-      startOffline();
       for (const f of document.querySelectorAll(".lb-calc[data-live]")) run(f);
     } else if (m.type === "failed") {
       clearTimeout(timer);
@@ -56,6 +58,8 @@ function startEngine() {
       setStatus();
       startOffline();
       console.error("lampbook engine:", m.error);
+    } else if (m.type === "stored") {
+      startOffline(); // the engine has handed its downloads over: the offline cache takes them as they are
     } else if (m.type === "result") {
       const cb = pending.get(m.id);
       pending.delete(m.id);
@@ -67,6 +71,7 @@ function startEngine() {
     setStatus();
     console.error("lampbook engine:", e.message);
   };
+  if (early) for (const e of early.queue.splice(0)) (e.type === "error" ? worker.onerror : worker.onmessage)(e);
 }
 
 function query(request) {

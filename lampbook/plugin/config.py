@@ -29,6 +29,24 @@ class LampbookConfig(base.Config):  # type: ignore[no-untyped-call]  # mkdocs le
     load_timeout = c.Type(int, default=60)
     """Seconds the page waits for the engine before saying it could not start."""
 
+    trim_stdlib = c.Type(bool, default=True)
+    """Ship only the part of the standard library the engine was measured to load (start-up, every module of
+    the core, every kind of request); false ships all of it."""
+
+    stdlib_modules = c.Type(list, default=[])
+    """Standard-library modules or packages (dotted names) to ship beyond the measured part, for Python a
+    handbook's own pages run in the engine."""
+
+    precache_search_languages = c.Optional(c.Type(list))
+    """Search-language bundles the offline cache takes (codes such as 'de'); default: the search plugin's
+    languages. Bundles for other languages stay on the server and are not cached."""
+
+    precache_source_maps = c.Type(bool, default=False)
+    """Put JavaScript source maps (*.map) in the offline cache too."""
+
+    compress = c.Type(bool, default=True)
+    """Write gzip (and, where the brotli package is installed, brotli) siblings of large text, JavaScript,
+    JSON and wasm files, for hosts that serve precompressed files."""
     review_jobs = c.Type(int, default=0)
     """Worker processes that review designs needing a review: 0 for as many as the machine has cores, 1 for none."""
 

@@ -30,6 +30,15 @@ SITE_ASSETS = (
 )
 
 
+# Start the engine while the page is still being read (widget.js takes the worker over and
+# replays what it said before then): its start-up is the wait every reader sees.
+_EARLY_START = (
+    "<script>if(!window.lbEngine&&window.Worker){(function(){var q=[],w=new Worker("
+    'new URL(WORKER,location.href),{type:"module"});w.onmessage=function(e){q.push(e)};'
+    "w.onerror=function(e){q.push(e)};window.lbEngine={worker:w,queue:q}})()}</script>"
+)
+
+
 class LampbookPlugin(BasePlugin[LampbookConfig]):  # type: ignore[no-untyped-call]  # as above
     BYPASS_MARKDOWN = True
     """Generated sheet bodies (HTML from the core) go into the page without a Markdown pass."""
@@ -159,6 +168,8 @@ class LampbookPlugin(BasePlugin[LampbookConfig]):  # type: ignore[no-untyped-cal
             f'<meta name="theme-color" content="#26323a">'
             f'<script type="application/json" id="lb-site">{site_json}</script>'
         )
+        if self.config.engine and 'class="lb-calc"' in output:
+            meta += _EARLY_START.replace("WORKER", json.dumps(base + "assets/lampbook/worker.js"))
         return output.replace("</head>", meta + "</head>", 1)
 
     # after every other plugin (the search index must exist before the offline precache is listed)
@@ -195,8 +206,37 @@ class LampbookPlugin(BasePlugin[LampbookConfig]):  # type: ignore[no-untyped-cal
             stdlib = (
                 bundle.compiled_stdlib(runtime, here / self.config.cache_dir) if self.config.compile_stdlib else None
             )
-            bundle.install_engine(site, runtime, stdlib)
+            cache = here / self.config.cache_dir
+            bundle.install_engine(site, runtime, stdlib, cache if self.config.compile_stdlib else None)
+            if self.config.trim_stdlib:
+                designs = (
+                    sorted((Path(config.docs_dir) / self.config.designs).glob("*.toml")) if self.config.designs else []
+                )
+                t = bundle.trim_engine_stdlib(site, cache, list(self.config.stdlib_modules), designs)
+                log.info("standard library trimmed to %d of %d files (%d bytes)", t["files"], t["of"], t["bytes"])
         except bundle.BundleError as e:
             raise PluginError(f"lampbook: {e}") from None
-        version = bundle.write_service_worker(site, (ASSETS / "sw.js").read_text())
+        langs = self.config.precache_search_languages
+        version = bundle.write_service_worker(
+            site,
+            (ASSETS / "sw.js").read_text(),
+            [str(x) for x in langs] if langs is not None else _search_languages(config),
+            self.config.precache_source_maps,
+        )
+        if self.config.compress:
+            bundle.write_compressed(site, Path(config.config_file_path).parent / self.config.cache_dir)
         log.info("engine bundled, offline cache %s", version)
+
+
+def _search_languages(config: MkDocsConfig) -> list[str] | None:
+    """The search plugin's languages (its default: the theme's language, else English);
+    None when the site has no search plugin we know (then every bundle is cached)."""
+    for name in ("search", "material/search"):
+        plugin = config.plugins.get(name)
+        if plugin is not None:
+            lang = plugin.config.get("lang")
+            if not lang:
+                theme_lang = config.theme.get("language") or config.theme.get("locale") or "en"
+                lang = [str(theme_lang).split("_")[0].split("-")[0]]
+            return [str(x) for x in (lang if isinstance(lang, list) else [lang])]
+    return None

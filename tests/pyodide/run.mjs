@@ -1,14 +1,81 @@
 // Run the core's own tests inside Pyodide on Node, from the npm package the site ships.
-// usage: node run.mjs PYODIDE_DIR WHEELS_DIR LAMPCALC_WHEEL TESTS_DIR TEST_FILE...
+// usage: node run.mjs PYODIDE_DIR WHEELS_DIR LAMPCALC_WHEEL TESTS_DIR [--engine ENGINE_DIR FULL_STDLIB] TEST_FILE...
+// (with --engine, LAMPBOOK_CORE_MODULES in the environment lists the core's modules as JSON)
+// With --engine, the engine is the site's: its trimmed standard library, its core wheel
+// imported as a zip on sys.path (as the page's worker does). Every module of the core is
+// imported and the core answers before anything else is there; only then is the rest of
+// the standard library (FULL_STDLIB) put behind it for the test machinery, and any module
+// the core itself imports from that rest is reported and fails the run.
 import { readFileSync, readdirSync } from "node:fs";
 import { join, basename } from "node:path";
 import { pathToFileURL } from "node:url";
 
-const [, , dir, wheels, core, tests, ...files] = process.argv;
+const args = process.argv.slice(2);
+const [dir, wheels, core, tests] = args.splice(0, 4);
+let engine = null;
+let full = null;
+if (args[0] === "--engine") [, engine, full] = args.splice(0, 3);
+const files = args;
 const { loadPyodide } = await import(pathToFileURL(join(dir, "pyodide.mjs")).href);
-const py = await loadPyodide({ indexURL: dir.endsWith("/") ? dir : dir + "/" });
+const opts = { indexURL: dir.endsWith("/") ? dir : dir + "/" };
+if (engine) opts.stdLibURL = join(engine, "python_stdlib.zip");
+const py = await loadPyodide(opts);
+if (engine) {
+  py.FS.writeFile("/lib/" + basename(core), new Uint8Array(readFileSync(core)));
+  py.pyimport("sys").path.insert(0, "/lib/" + basename(core));
+  // the core's module names (LAMPBOOK_CORE_MODULES, a JSON list): nothing but the core may load stdlib here
+  py.globals.set("core_modules", py.toPy(JSON.parse(process.env.LAMPBOOK_CORE_MODULES)));
+  console.log(py.runPython(`
+import importlib, json, sys
+for m in core_modules:
+    importlib.import_module(m)
+import lampcalc.api as api
+from lampcalc.calculators import CALCULATORS
+bad = [n for n in CALCULATORS if not json.loads(api.handle(json.dumps({"calculator": n, "inputs": {}})))["ok"]]
+assert not bad, bad
+"trimmed library: %d core modules imported, %d calculators answered" % (len(core_modules), len(CALCULATORS))
+`));
+  py.FS.writeFile("/lib/rest-of-stdlib.zip", new Uint8Array(readFileSync(full)));
+  py.runPython(`
+import sys, zipimport
+REST = "/lib/rest-of-stdlib.zip"
+sys.path.append(REST)
+
+class Rest:
+    """Submodules of packages the trimmed library holds only in part."""
+    @staticmethod
+    def find_spec(name, path=None, target=None):
+        parent = name.rpartition(".")[0]
+        try:
+            return zipimport.zipimporter(REST + ("/" + parent.replace(".", "/") if parent else "")).find_spec(name)
+        except zipimport.ZipImportError:
+            return None
+
+sys.meta_path.append(Rest)
+core_imports = set()
+_std = set(sys.stdlib_module_names) | {"_pyodide", "pyodide", "_frozen_importlib", "_frozen_importlib_external"}
+
+def _who(event, args):
+    if event != "import":
+        return
+    f = sys._getframe(1)
+    while f is not None:
+        top = str(f.f_globals.get("__name__", "")).partition(".")[0]
+        if top == "lampcalc":
+            core_imports.add(args[0])
+            return
+        if top not in _std:
+            return
+        f = f.f_back
+
+sys.addaudithook(_who)
+`);
+}
 const site = py.runPython("import sysconfig; sysconfig.get_paths()['purelib']");
-for (const w of [...readdirSync(wheels).filter((f) => f.endsWith(".whl")).map((f) => join(wheels, f)), core]) {
+if (!engine) {
+  for (const w of [core]) py.unpackArchive(new Uint8Array(readFileSync(w)), "wheel", { extractDir: site });
+}
+for (const w of readdirSync(wheels).filter((f) => f.endsWith(".whl")).map((f) => join(wheels, f))) {
   py.unpackArchive(new Uint8Array(readFileSync(w)), "wheel", { extractDir: site });
 }
 py.FS.mkdirTree("/work/tests");
@@ -30,8 +97,21 @@ const code = await py.runPythonAsync(`
 import os, sys
 os.chdir("/work/tests")
 import pytest
+from hypothesis import settings
+# no per-example deadline in here: the interpreter runs slower than natively and the machine may be
+# shared; speed is measured by the benchmarks, not by timed tests
+settings.register_profile("pyodide", deadline=None)
+settings.load_profile("pyodide")
 import lampcalc
 print("lampcalc from", lampcalc.__file__, "on Python", sys.version.split()[0], sys.platform)
 pytest.main(["-q", "-p", "no:cacheprovider", "--strict-markers", *${JSON.stringify(files.map((f) => basename(f)))}])
 `);
+if (engine) {
+  const outside = py.runPython(`
+import json
+json.dumps(sorted(m for m in core_imports if (getattr(sys.modules.get(m), "__spec__", None) is not None
+    and (sys.modules[m].__spec__.origin or "").startswith(REST))))`);
+  console.log("core imports outside the trimmed library:", outside);
+  if (outside !== "[]") process.exit(3);
+}
 process.exit(Number(code));
