@@ -211,6 +211,78 @@ def bench_native_study() -> dict[str, float]:
     return out
 
 
+def bench_review(pyodide: bool = True) -> dict[str, dict[str, float]]:
+    """The whole worst-case review of each demo design (corners x steps, faults,
+    switch-on) in CPython, its parts, and the same review in Pyodide on Node;
+    and what the corner survey's reduced quadrature costs in accuracy."""
+    from lampcalc.circuit import transient
+    from lampcalc.fixture import corners, faults
+    from lampcalc.fixture.check import check
+    from lampcalc.fixture.design import parse_design
+
+    out: dict[str, dict[str, float]] = {}
+    paths = sorted((ROOT / "docs" / "designs").glob("*.toml"))
+    for p in paths:
+        d = parse_design(p.read_text())
+        row: dict[str, float] = {"review_s": per_call(lambda d=d: check(d), repeat=3, number=1)}
+        if not d.is_cv:
+            row["corners"] = float(len(corners.corner_list(d)))
+            row["corners_s"] = per_call(lambda d=d: corners.worst(d, corners.solve_corners(d)), repeat=3, number=1)
+            row["faults_s"] = per_call(lambda d=d: faults.analyse(d), repeat=3, number=1)
+            _, _, vhi = d.mains_band()
+            c = d.circuit(mains_voltage=vhi)
+            row["switch_on_s"] = per_call(
+                lambda c=c: transient.worst_switch_on(c, transient.Supply()), repeat=3, number=1
+            )
+            # the survey's cost in accuracy: the worst value of every stress, survey against full resolution
+            fast = corners.worst(d, corners.solve_corners(d), refine=False)
+            full = corners.worst(d, corners.solve_corners(d, points=600), refine=False)
+            row["survey_max_rel_error"] = max(abs(fast[k].value / full[k].value - 1) for k in full if full[k].value)
+            row["survey_same_corners"] = float(all(fast[k].solved.corner == full[k].solved.corner for k in full))
+        out[p.name] = row
+    if pyodide:
+        from lampbook.bundle import build_wheel
+
+        with tempfile.TemporaryDirectory() as tmp:
+            wheel = build_wheel(Path(tmp))
+            r = subprocess.run(
+                ["node", str(ROOT / "bench" / "pyodide_review.mjs"), str(ROOT / "node_modules" / "pyodide"), str(wheel)]
+                + [str(p) for p in paths],
+                capture_output=True,
+                text=True,
+                timeout=1800,
+            )
+            if r.returncode:
+                raise SystemExit(r.stderr[-2000:])
+            for name, v in json.loads(r.stdout.strip().splitlines()[-1]).items():
+                out[name]["pyodide_review_s"] = float(v["review_s"])
+    return out
+
+
+def review_lines(rev: dict[str, dict[str, float]]) -> list[str]:
+    lines = [
+        "",
+        "## Worst-case review (corners x steps, single faults, switch-on), best of 3",
+        "",
+        "| design | whole review, CPython | corners | of which corner survey | faults | switch-on (phase search) "
+        "| Pyodide on Node | survey error | same corners |",
+        "|---|---|---|---|---|---|---|---|---|",
+    ]
+    for name, r in rev.items():
+        if "corners" not in r:
+            lines.append(
+                f"| {name} | {r['review_s'] * 1e3:.0f} ms | — (CV, closed form) | | | | "
+                f"{r.get('pyodide_review_s', float('nan')):.2f} s | | |"
+            )
+            continue
+        lines.append(
+            f"| {name} | {r['review_s']:.2f} s | {r['corners']:.0f} | {r['corners_s']:.2f} s | {r['faults_s']:.2f} s "
+            f"| {r['switch_on_s']:.2f} s | {r.get('pyodide_review_s', float('nan')):.2f} s "
+            f"| {r['survey_max_rel_error']:.1e} | {'yes' if r['survey_same_corners'] else 'no'} |"
+        )
+    return lines
+
+
 def bench_sweep() -> dict[str, object]:
     """The seeded 2,000-design random sweep through `check` (bench/sweep.py)."""
     sys.path.insert(0, str(ROOT / "bench"))
@@ -227,6 +299,7 @@ def main() -> None:
     native = bench_native_study()
     solver = bench_solver()
     browser = bench_browser()
+    review = bench_review()
     from engine import CONFIGS, bench_engine, report_lines
 
     engine = bench_engine(5, CONFIGS)
@@ -241,6 +314,7 @@ def main() -> None:
         "browser": browser,
         "study_pyodide": studies,
         "study_native_s": native,
+        "review": review,
         "engine": engine,
         "catalogue": catalogue,
         "sweep": design_sweep,
@@ -315,6 +389,7 @@ def main() -> None:
         f"site size {c['site_bytes'] / 1e6:.1f} MB. Build time {c['build_s']:.1f} s (compiled stdlib from the cache), "
         f"{browser['source_stdlib']['build_s']:.1f} s without compiling.",
     ]  # type: ignore[index]
+    lines += review_lines(review)
     lines += report_lines(engine)
     lines += ["", *catalogue_lines(catalogue)]
     from sweep import markdown

@@ -30,9 +30,11 @@ def check_report(ans: Mapping[str, Any]) -> str:
             f"LED current {format_value(st['led_current_avg_A'], 'current')}"
         )
     if not cv:
+        so = ans["switch_on"]
         parts.append(
-            f"Switch-on peak at the crest, high mains: {format_value(ans['switch_on_peak_A'], 'current')}"
-            f" ({format_value(ans['switch_on_energy_J'], 'energy')} in the series resistor)"
+            f"Switch-on from discharged, closing at {so['phase_deg']:g}°, high mains, through the supply impedance: "
+            f"{format_value(so['peak_A'], 'current')} peak, I²t {so['i2t_A2s']:.3g} A²s"
+            f" ({format_value(so['resistor_energy_J'], 'energy')} in the series resistor)"
         )
         parts.append(
             "Open load (every string open), high mains: "
@@ -46,6 +48,23 @@ def check_report(ans: Mapping[str, Any]) -> str:
             [[c["id"], c["status"].upper(), c["message"]] for c in ans["checks"]],
         ),
     ]
+    if ans.get("faults"):
+        parts += [
+            "",
+            table(
+                ["single fault", "outcome", "fuse", "over rating", "leads to"],
+                [
+                    [
+                        f["id"],
+                        f["outcome"].upper(),
+                        f"clears within {f['fuse_time_s']:.3g} s" if f["fuse_clears"] else "does not clear",
+                        ", ".join(o["check"] for o in f["over_rating"]) or "-",
+                        ", ".join(f["leads_to"]) or "-",
+                    ]
+                    for f in ans["faults"]
+                ],
+            ),
+        ]
     parts.append(
         f"\n{ans['failed']} failed, {ans['warned']} warning{'' if ans['warned'] == 1 else 's'}. "
         "Exit code 1 when any check fails."

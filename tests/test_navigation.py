@@ -30,6 +30,9 @@ CHANGE = {
     "module": ("current", "35 mA"),
     "preferred": ("value", "6100"),
     "mains": ("region", "120-60"),
+    "light": ("distance", "5 m"),
+    "camera": ("frame_rate", "25 fps"),
+    "harmonics": ("active_power", "60 W"),
 }
 
 

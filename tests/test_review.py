@@ -3,6 +3,7 @@ studies and build sheets. Every limit names its source beside the test."""
 
 from __future__ import annotations
 
+import functools
 import html
 import math
 import re
@@ -36,25 +37,31 @@ def with_(**changes: str) -> str:
     return text
 
 
+@functools.cache
+def reviewed(text: str) -> dict[str, object]:
+    """The review of a design text, once per text (the answers are read, never changed)."""
+    return check(parse_design(text))
+
+
 def status(text: str, cid: str) -> tuple[str, dict[str, object]]:
-    ans = check(parse_design(text))
+    ans = reviewed(text)
     c = next(c for c in ans["checks"] if c["id"] == cid)
     return c["status"], ans
 
 
 @pytest.fixture(scope="module")
 def base() -> dict[str, object]:
-    return check(parse_design(BASE))
+    return reviewed(BASE)
 
 
 def test_demo_designs_are_clean() -> None:
     for name in ("panel-230", "worklight-120", "panel-24v"):
-        ans = check(parse_design((DESIGNS / f"{name}.toml").read_text()))
+        ans = reviewed((DESIGNS / f"{name}.toml").read_text())
         assert ans["failed"] == 0, (name, [c for c in ans["checks"] if c["status"] == "fail"])
 
 
 def test_unsafe_demo_fails_with_reasons() -> None:
-    ans = check(parse_design((DESIGNS / "unsafe-demo.toml").read_text()))
+    ans = reviewed((DESIGNS / "unsafe-demo.toml").read_text())
     failed = {c["id"] for c in ans["checks"] if c["status"] == "fail"}
     expected = {
         "dropper.class",
@@ -115,8 +122,13 @@ def test_bleeder_boundary_IEC60335_1_cl22_5() -> None:
 
 
 def test_bridge_surge_boundary_common_practice(base: dict[str, object]) -> None:
+    # with no supply impedance the time-domain run meets the closed form S16, I = (Vpk - drop) / R
+    stiff = check(parse_design(with_(mains__source_resistance='"0 Ω"', mains__source_inductance='"0 H"')))
+    closed = (math.sqrt(2) * 253 - 1.7) / (100 + 0.16 + 0.15)
+    assert float(stiff["switch_on_peak_A"]) == pytest.approx(closed, rel=2e-3)
+    # the reference supply impedance (IEC TR 60725, 0.4 Ω + j0.25 Ω) lowers it
     peak = float(base["switch_on_peak_A"])  # type: ignore[arg-type]
-    assert peak == pytest.approx((math.sqrt(2) * 253 - 1.7) / (100 + 0.16 + 0.15), rel=1e-9)  # S16: Vpk / R
+    assert peak < closed
     assert status(with_(bridge__surge_rating=f'"{2.01 * peak} A"'), "bridge.surge")[0] == "pass"
     assert status(with_(bridge__surge_rating=f'"{0.99 * peak} A"'), "bridge.surge")[0] == "fail"
 
@@ -129,7 +141,8 @@ def test_bridge_vrrm_boundary_S25_S26() -> None:
 
 
 def test_fuse_boundary_75_percent_secondary_copy(base: dict[str, object]) -> None:
-    i = float(base["high"]["line_current_rms_A"])  # type: ignore[index]
+    # judged at its own worst corner (high mains, +tolerance, top step), not at the nominal parts
+    i = next(c["value"] for c in base["corners"] if c["stress"] == "line_current_rms_A")  # type: ignore[attr-defined]
     assert status(with_(fuse__rating=f'"{i / 0.75 * 1.01} A"'), "fuse.rating")[0] == "pass"
     assert status(with_(fuse__rating=f'"{i / 0.75 * 0.99} A"'), "fuse.rating")[0] == "warn"
     assert status(with_(fuse__rating=f'"{i * 0.99} A"'), "fuse.rating")[0] == "fail"
@@ -220,3 +233,69 @@ def test_sheet_escapes_design_text() -> None:
     d = parse_design(BASE.replace('name = "KR flood panel 230"', 'name = "<script>alert(1)</script>"'))
     page = render(d, check(d), None)
     assert "<script>alert" not in page and "&lt;script&gt;" in page
+
+
+# each margin rule at its boundary: just passes, just warns, just fails (sources in the catalogue, named here)
+BOUNDARIES = (
+    # check id, design key, stress in the check's values, unit; source of the margin
+    ("resistor.power", "dropper__resistor_rating", "power_W", "W"),  # 50 % of rating: common practice
+    ("resistor.pulse", "dropper__resistor_pulse_energy", "energy_J", "J"),  # 50 % of the pulse rating: common practice
+    ("ballast.power", "array__ballast_rating", "power_W", "W"),  # 50 %: common practice
+    ("smoothing.ripple_current", "smoothing__ripple_rating", "ripple_rms_A", "A"),  # 80 %: common practice
+    ("smoothing.working_voltage", "smoothing__voltage_rating", "bus_max_V", "V"),  # 80 %: common practice
+    ("fuse.rating", "fuse__rating", "line_rms_A", "A"),  # 75 %: fuse-selection guidance (secondary copy)
+    ("fuse.i2t", "fuse__i2t", "i2t_A2s", "A²s"),  # a third of pre-arcing I²t: common practice (Q5)
+    ("bridge.i2t", "bridge__i2t", "i2t_A2s", "A²s"),  # half: common practice
+    ("bridge.average", "bridge__average_rating", "average_A", "A"),  # 80 % capacitive-load derating
+    ("dropper.step_relay", "dropper__step_relay_rating", "peak_A", "A"),  # the relay's inrush rating
+    ("bleeder.smoothing_rating", "smoothing__bleeder_rating", "power_each_W", "W"),  # 50 %: common practice
+    ("bleeder.dropper_rating", "dropper__bleeder_rating", "power_each_W", "W"),  # 50 %: common practice
+)
+
+
+def test_margin_rules_at_their_boundaries(base: dict[str, object]) -> None:
+    from lampcalc.fixture.rules import RULES
+
+    checks = {c["id"]: c for c in base["checks"]}  # type: ignore[attr-defined]
+    stress = {cid: float(checks[cid]["values"][key]) for cid, _, key, _ in BOUNDARIES}
+
+    def ratings(factor: str) -> dict[str, str]:
+        out = {}
+        for cid, design_key, _, unit in BOUNDARIES:
+            r = RULES[cid]
+            edge = {
+                "pass": stress[cid] / (r.use or r.fail_at) * (1 + 1e-6),
+                "warn": stress[cid] / (r.use or r.fail_at) * (1 - 1e-6),
+                "fail": stress[cid] / r.fail_at * (1 - 1e-6),
+            }[factor]
+            out[design_key] = f'"{edge!r} {unit}"'
+        return out
+
+    for expect in ("pass", "warn", "fail"):
+        ans = check(parse_design(with_(**ratings(expect))))
+        got = {c["id"]: c["status"] for c in ans["checks"]}
+        for cid, *_ in BOUNDARIES:
+            r = RULES[cid]
+            want = "fail" if expect == "warn" and (r.use or r.fail_at) >= r.fail_at else expect
+            assert got[cid] == want, (cid, expect, got[cid])
+
+
+def test_dropper_part_current_and_clamp_power() -> None:
+    # each part of the bank carries its share C_part / C_step of the step's current (circuit theory); 80 % margin
+    hi = check(parse_design(with_(dropper__current_rating='"10 A"')))
+    chk = next(c for c in hi["checks"] if c["id"] == "dropper.current")
+    i = float(chk["values"]["current_rms_A"])
+    top = next(c["value"] for c in hi["corners"] if c["stress"] == "dropper_current_rms_A")
+    # the 1 µF part carries 1/1.47 of the top step's current, and all of the low step's (which may be more)
+    assert top / 1.47 * (1 - 1e-4) <= i < top
+    assert status(with_(dropper__current_rating=f'"{i / 0.8 * 1.000001!r} A"'), "dropper.current")[0] == "pass"
+    assert status(with_(dropper__current_rating=f'"{i * 0.999999!r} A"'), "dropper.current")[0] == "fail"
+    # a declared clamp must take the whole dropper current at open load: P = V_clamp · I_dc (circuit theory)
+    st, ans = status(with_(smoothing__clamp='"150 V"'), "smoothing.clamp")
+    c = next(c for c in ans["checks"] if c["id"] == "smoothing.clamp")  # type: ignore[attr-defined]
+    assert st == "fail" and "crowbar" in c["message"]
+    p = float(c["values"]["power_W"])
+    assert (
+        status(with_(smoothing__clamp='"150 V"', smoothing__clamp_rating=f'"{2.01 * p} W"'), "smoothing.clamp")[0]
+        == "pass"
+    )

@@ -1391,6 +1391,8 @@ LIGHT = Calculator(
         Output("illuminance_average", "Average", "illuminance"),
         Output("field_diameter", "Field", "length"),
     ),
+    main=("fixture_flux", "illuminance_axis", "field_diameter"),
+    secondary=("test_current", "test_temperature", "current_droop", "thermal_droop", "input_power", "optics"),
 )
 
 
@@ -1541,6 +1543,8 @@ CAMERA = Calculator(
         Output("variation", "Variation", "ratio"),
         Output("ok", "Under", "text"),
     ),
+    main=("variation", "verdict", "safe"),
+    secondary=("rectifier", "shape", "threshold"),
 )
 
 
@@ -1668,6 +1672,8 @@ HARMONICS = Calculator(
         Output("measured", "Typed", "current"),
         Output("status", "", "text"),
     ),
+    main=("verdict", "band", "applies"),
+    secondary=("fundamental", "h9", "h11", "h13", "angle_start", "angle_peak", "angle_stop"),
 )
 
 

@@ -86,6 +86,12 @@ py.FS.mkdirTree("/work/docs/designs");
 for (const f of readdirSync(designs).filter((f) => f.endsWith(".toml"))) {
   py.FS.writeFile("/work/docs/designs/" + f, new Uint8Array(readFileSync(join(designs, f))));
 }
+// the review's own regression designs (tests/designs)
+const ownDesigns = join(tests, "designs");
+py.FS.mkdirTree("/work/tests/designs");
+for (const f of readdirSync(ownDesigns).filter((f) => f.endsWith(".toml"))) {
+  py.FS.writeFile("/work/tests/designs/" + f, new Uint8Array(readFileSync(join(ownDesigns, f))));
+}
 py.FS.writeFile("/work/tests/pytest.ini", "[pytest]\nxfail_strict = true\nmarkers =\n    reference: published references\n");
 const code = await py.runPythonAsync(`
 import os, sys

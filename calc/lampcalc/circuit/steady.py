@@ -61,15 +61,16 @@ class Bridge:
     def threshold(self) -> float:
         return 2 * self.drop if self.kind == "line" else 0.0
 
-    def chords(self, i_max: float) -> tuple[tuple[float, float, float], ...]:
-        """(start current, a, r) with pair drop = a + r I from each start on."""
+    def chords(self, i_max: float, ratio: float = 1.6) -> tuple[tuple[float, float, float], ...]:
+        """(start current, a, r) with pair drop = a + r I from each start on;
+        successive chord ends ``ratio`` apart in current."""
         if self.kind == "line":
             return ((0.0, 2 * self.drop, 2 * self.resistance),)
         pts = [0.0]
         i = 1e-7
         while i < i_max * 4:
             pts.append(i)
-            i *= 1.6
+            i *= ratio
         pts.append(i)
         out = []
         for k in range(len(pts) - 1):
@@ -554,6 +555,7 @@ class SteadyState:
     #: one whole period on a uniform grid of ``spectrum_points`` (empty unless asked for): "t", "mains_V",
     #: "line_current_A", "led_current_A" and "string{k}_A" (one string of group k)
     period_samples: dict[str, tuple[float, ...]] = field(default_factory=dict)
+    start: Vec = (0.0, 0.0)  # the state at t = 0 (a warm start for a nearby circuit)
 
 
 def initial_state(c: Circuit) -> Vec:
@@ -590,10 +592,14 @@ def initial_state(c: Circuit) -> Vec:
     return (vcd, vb)
 
 
-def solve(c: Circuit, points: int = 600, wave_points: int = 200, spectrum_points: int = 0) -> SteadyState:
+def solve(
+    c: Circuit, points: int = 600, wave_points: int = 200, spectrum_points: int = 0, start: Vec | None = None
+) -> SteadyState:
     """The periodic steady state. ``spectrum_points`` (even, 0 for none) adds
     ``period_samples``: the waveforms on that many equally spaced points per
-    period, for harmonic spectra and camera exposure."""
+    period, for harmonic spectra and camera exposure. ``start`` is an optional
+    warm start (the state at t = 0 of a nearby circuit); Newton converges to the
+    same answer."""
     if spectrum_points < 0 or spectrum_points % 2:
         raise InputError("spectrum_points", spectrum_points, "an even number of samples per period, or 0")
     sol = Solver(c)
@@ -605,7 +611,7 @@ def solve(c: Circuit, points: int = 600, wave_points: int = 200, spectrum_points
             f"a string knee below the mains peak less the bridge drop ({sol.vpk - a0:.4g} V)",
             "no conduction: the LED strings need more than the mains peak",
         )
-    x0 = sol.solve(initial_state(c))
+    x0 = sol.solve(start if start is not None else initial_state(c))
     _, _, segs = sol.half_period(x0, record=True)
     st = _measure(sol, segs, points, wave_points)
     if spectrum_points:
@@ -751,6 +757,7 @@ def _measure(sol: Solver, segs: list[tuple[float, float, Mode, Vec]], n: int, nw
         },
         iterations=sol.iterations,
         steps=sol.steps,
+        start=segs[0][3] if segs else (0.0, 0.0),
     )
 
 

@@ -12,8 +12,9 @@ import re
 from typing import Any
 
 from ..fixture.design import Design
+from ..fixture.rules import RULES
 from ..physics import wire as wr
-from ..physics.harmonic_limits import RULES
+from ..physics.harmonic_limits import RULES as HARMONIC_RULES
 from ..quantities.units import format_value as fv
 
 OPERATING_ROWS: tuple[tuple[str, str, str], ...] = (
@@ -78,130 +79,209 @@ def _table(headers: list[str], rows: list[list[str]], cls: str = "") -> str:
 # --- bill of materials ----------------------------------------------------------------
 
 
+def switch_on_html(ans: dict[str, Any]) -> str:
+    """The switch-on figures: peak, I²t, closing phase and the step relay."""
+    so = ans.get("switch_on")
+    if not so:
+        return ""
+    corner = ", ".join(f"{k} {v}" for k, v in so["corner"].items())
+    text = (
+        "<p>Switch-on from the discharged state, closing at "
+        f"{so['phase_deg']:g}° of the mains ({_e(corner)}), through the supply impedance "
+        f"{_e(fv(so['source_resistance_ohm'], 'resistance'))} + {_e(fv(so['source_inductance_H'], 'inductance'))}: "
+        f"<strong>{_e(fv(so['peak_A'], 'current'))}</strong> peak after "
+        f"{_e(fv(so['time_of_peak_s'], 'time'))}, I²t {so['i2t_A2s']:.3g} A²s over the first half period, "
+        f"{_e(fv(so['resistor_energy_J'], 'energy'))} in the series resistor."
+    )
+    st = so.get("step_switching") or {}
+    if st:
+        text += (
+            f" Closing the {_e(fv(st['added_F'], 'capacitance'))} step onto the charged "
+            f"{_e(fv(st['charged_F'], 'capacitance'))} ({_e(fv(st['delta_V'], 'voltage'))}): "
+            f"<strong>{_e(fv(st['peak_A'], 'current'))}</strong> peak in the step relay, "
+            f"I²t {st['i2t_A2s']:.3g} A²s."
+        )
+    return text + "</p>"
+
+
+def fault_rows(ans: dict[str, Any]) -> list[list[str]]:
+    """One row per single fault."""
+    rows = []
+    for f in ans.get("faults", []):
+        over = "; ".join(
+            f"{o['part']} ({o['check']}): {o['value']:.3g} against {o['rating']:.3g} {o['unit']}, {o['consequence']}"
+            for o in f["over_rating"]
+        )
+        fuse = f"clears within {f['fuse_time_s']:.3g} s" if f["fuse_clears"] else "does not clear"
+        notes = " ".join(f.get("notes", []))
+        rows.append(
+            [
+                f"<code>{_e(f['id'])}</code><br>{_e(f['description'])}",
+                f'<span class="lb-st lb-{"fail" if f["outcome"] == "hazard" else "pass"}">'
+                f"{_e(f['outcome'].upper())}</span>",
+                _e(fuse),
+                _e(over or "nothing over its rating") + (f"<br>{_e(notes)}" if notes else ""),
+                _e(" → ".join(f["leads_to"])) or "—",
+            ]
+        )
+    return rows
+
+
+def corner_rows(ans: dict[str, Any]) -> list[list[str]]:
+    """One row per stress: its worst value and the corner that gives it."""
+    kinds = {"A": "current", "V": "voltage", "W": "power"}
+    rows = []
+    for c in ans.get("corners", []):
+        v = float(c["value"])
+        shown = f"{v:.2f} %" if c["unit"] == "%" else fv(v, kinds[c["unit"]])
+        rows.append([_e(c["stress"]), _e(shown), _e(", ".join(f"{k} {x}" for k, x in c["corner"].items()))])
+    return rows
+
+
+def _need(rule: str, value: float) -> float:
+    """The rating a part needs: the catalogue rule's margin applied to its worst-corner stress."""
+    return RULES[rule].required(value)
+
+
 def bom(d: Design, ans: dict[str, Any]) -> list[list[str]]:
+    """The parts list. Its *required rating* column reads each part's stress at
+    its own worst corner (``ans["corners"]``) through the rule catalogue."""
     rows: list[list[str]] = []
-    arr, mod = d.values["array"], d.values["module"]
-    s, p = int(arr["series"]), int(arr["parallel"])
+    arr, mod = d.array, d.module_spec
+    s, p = arr.series, arr.parallel
+    stress = {c["stress"]: float(c["value"]) for c in ans.get("corners", [])}
+    nominal = ans["nominal"] or {}
     rows.append(
         [
             f"LED module × {s * p}",
-            _e(mod.get("name") or "module"),
+            _e(mod.name or "module"),
             f"{s} in series × {p} strings",
-            (
-                f"{fv(float(mod['current_max']), 'current')} max; "
-                f"runs {fv(ans['nominal']['string_current_avg_A'], 'current')}"
-            ),
+            (f"{fv(mod.current_max, 'current')} max; runs {fv(nominal.get('string_current_avg_A', 0.0), 'current')}"),
         ]
     )
-    worst = ans.get("worst_high", ans["nominal"])
-    if float(arr["ballast"]) > 0:
-        i = worst["string_current_avg_A"]
-        pw = i * i * float(arr["ballast"])
+    if arr.ballast > 0:
+        if d.is_cv:
+            i = ans["worst_high"]["string_current_avg_A"]
+            pw = i * i * arr.ballast
+        else:
+            pw = stress.get("ballast_power_W", 0.0)
         rows.append(
             [
                 f"Ballast resistor × {p}",
-                fv(float(arr["ballast"]), "resistance"),
-                "one per string",
-                f"≥ {fv(2 * pw, 'power')} (dissipates {fv(pw, 'power')} worst case)",
+                fv(arr.ballast, "resistance"),
+                fv(arr.ballast_rating, "power") if arr.ballast_rating else "one per string",
+                f"≥ {fv(_need('ballast.power', pw), 'power')} (dissipates {fv(pw, 'power')} worst case)",
             ]
         )
-    if d.is_cv:
-        sup = d.values["supply"]
+    if d.supply is not None:
+        sup = d.supply
         rows.append(
             [
                 "Constant-voltage supply",
-                fv(float(sup["voltage"]), "voltage"),
-                f"±{float(sup['tolerance']):.0%}",
-                f"≥ {fv(worst['led_current_avg_A'] / 0.8, 'current')} (listed supply; 80 % loading)",
+                fv(sup.voltage, "voltage"),
+                f"±{sup.tolerance:.0%}",
+                f"≥ {fv(ans['worst_high']['led_current_avg_A'] / 0.8, 'current')} (listed supply; 80 % loading)",
             ]
         )
         return rows
     _, _, vhi = d.mains_band()
     vpk = math.sqrt(2) * vhi
-    dr = d.values.get("dropper", {})
-    hi = ans["high"]
-    if dr.get("capacitance"):
-        steps = dr.get("steps")
-        val = " / ".join(fv(c, "capacitance") for c in steps) if steps else fv(float(dr["capacitance"]), "capacitance")
+    dr = d.dropper_or_none
+    if dr.capacitance:
+        val = " / ".join(fv(c, "capacitance") for c in dr.steps) if dr.steps else fv(dr.capacitance, "capacitance")
         rows.append(
             [
                 "Dropper capacitor",
-                val + f" ±{float(dr['tolerance']):.0%}",
-                f"class {_e(dr.get('class') or '—')}, "
-                f"rated {fv(dr['ac_rating'], 'voltage') if dr.get('ac_rating') else '—'} AC",
-                f"X1/X2, ≥ {fv(1.1 * vhi, 'voltage')} AC; carries {fv(hi['dropper_current_rms_A'], 'current')} rms",
+                val + f" ±{dr.tolerance:.0%}",
+                f"class {_e(dr.cls or '—')}, rated {fv(dr.ac_rating, 'voltage') if dr.ac_rating else '—'} AC",
+                f"X1/X2, ≥ {fv(_need('dropper.ac_rating', vhi), 'voltage')} AC; carries "
+                f"{fv(stress.get('dropper_current_rms_A', 0.0), 'current')} rms at its worst corner",
             ]
         )
-    rs = float(dr.get("series_resistance") or 0.0)
-    if rs > 0:
-        p_rs = hi["losses_W"]["series_resistor"]
+    so = ans.get("switch_on") or {}
+    pulse = float(so.get("resistor_energy_J", ans.get("switch_on_energy_J", 0.0)))
+    i2t = float(so.get("i2t_A2s", 0.0))
+    if dr.series_resistance > 0:
+        p_rs = stress.get("series_resistor_power_W", 0.0)
         rows.append(
             [
                 "Series resistor (surge limit)",
-                fv(rs, "resistance"),
-                f"{fv(dr['resistor_rating'], 'power') if dr.get('resistor_rating') else '—'}",
-                f"fusible, pulse-rated; ≥ {fv(2 * p_rs, 'power')}; pulse {fv(ans['switch_on_energy_J'], 'energy')}",
+                fv(dr.series_resistance, "resistance"),
+                f"{fv(dr.resistor_rating, 'power') if dr.resistor_rating else '—'}",
+                f"fusible, pulse-rated; ≥ {fv(_need('resistor.power', p_rs), 'power')}; "
+                f"pulse rating ≥ {fv(_need('resistor.pulse', pulse), 'energy')}",
             ]
         )
-    if dr.get("bleeder"):
-        rb = float(dr["bleeder"])
-        n = max(1, math.ceil(vpk / 200))
+    if dr.bleeder:
+        n = max(dr.bleeder_resistors, math.ceil(stress.get("dropper_voltage_peak_V", vpk) / dr.bleeder_voltage_rating))
+        pw = stress.get("dropper_bleeder_power_W", 0.0) / n / dr.bleeder_paths
         rows.append(
             [
                 "Dropper bleeder",
-                fv(rb, "resistance"),
-                f"{n} in series" if n > 1 else "one part",
-                f"≥ {fv(2 * vhi**2 / rb, 'power')} total; working voltage ≥ {fv(vpk, 'voltage')}",
+                fv(dr.bleeder, "resistance"),
+                (f"{n} in series" if n > 1 else "one part")
+                + (f" × {dr.bleeder_paths} paths" if dr.bleeder_paths > 1 else ""),
+                f"≥ {fv(_need('bleeder.dropper_rating', pw), 'power')} each; "
+                f"limiting voltage ≥ {fv(stress.get('dropper_voltage_peak_V', vpk) / n, 'voltage')} each",
             ]
         )
-    br = d.values["bridge"]
+    br = d.bridge_or()
     rows.append(
         [
             "Bridge rectifier",
-            f"{_e(br['model'])} model",
-            f"V_RRM {fv(br['vrrm'], 'voltage') if br.get('vrrm') else '—'}",
-            f"V_RRM ≥ {fv(1.5 * vpk, 'voltage')}; I_F(AV) ≥ {fv(2 * worst['diode_current_avg_A'] / 0.8, 'current')}; "
-            f"I_FSM ≥ {fv(2 * ans['switch_on_peak_A'], 'current')}",
+            f"{_e(br.model)} model",
+            f"V_RRM {fv(br.vrrm, 'voltage') if br.vrrm else '—'}",
+            f"V_RRM ≥ {fv(_need('bridge.vrrm', vpk), 'voltage')}; "
+            f"I_F(AV) ≥ {fv(_need('bridge.average', stress.get('bridge_current_avg_A', 0.0)), 'current')}; "
+            f"I_FSM ≥ {fv(_need('bridge.surge', ans['switch_on_peak_A']), 'current')}; "
+            f"I²t ≥ {_need('bridge.i2t', i2t):.3g} A²s",
         ]
     )
-    sm = d.values["smoothing"]
-    need_v = float(sm["clamp"]) if sm.get("clamp") else ans["open_load_bus_V"]
+    sm = d.smoothing_or()
+    need_v = max(
+        sm.clamp if sm.clamp else ans["open_load_bus_V"],
+        _need("smoothing.working_voltage", stress.get("bus_voltage_max_V", 0.0)),
+    )
     rows.append(
         [
             "Smoothing capacitor",
-            fv(float(sm["capacitance"]), "capacitance"),
-            f"{fv(sm['voltage_rating'], 'voltage') if sm.get('voltage_rating') else '—'}",
-            f"≥ {fv(need_v, 'voltage')} ({'clamp' if sm.get('clamp') else 'open load'}); ripple ≥ "
-            f"{fv(worst['smoothing_ripple_current_rms_A'] / 0.8, 'current')} rms; 105 °C grade",
+            fv(sm.capacitance, "capacitance") + f" ±{sm.tolerance:.0%}",
+            f"{fv(sm.voltage_rating, 'voltage') if sm.voltage_rating else '—'}",
+            f"≥ {fv(need_v, 'voltage')} ({'clamp' if sm.clamp else 'open load'} and working margin); ripple ≥ "
+            f"{fv(_need('smoothing.ripple_current', stress.get('smoothing_ripple_current_rms_A', 0.0)), 'current')}"
+            " rms; 105 °C grade",
         ]
     )
-    if sm.get("bleeder"):
-        v = worst["bus_voltage_max_V"]
+    if sm.bleeder:
+        v = stress.get("bus_voltage_max_V", 0.0)
+        n = max(sm.bleeder_resistors, math.ceil(v / sm.bleeder_voltage_rating))
         rows.append(
             [
                 "Bus bleeder",
-                fv(float(sm["bleeder"]), "resistance"),
-                "",
-                f"≥ {fv(2 * v * v / float(sm['bleeder']), 'power')}",
+                fv(sm.bleeder, "resistance"),
+                f"{n} in series" if n > 1 else "one part",
+                f"≥ {fv(_need('bleeder.smoothing_rating', stress.get('bus_bleeder_power_W', 0.0) / n), 'power')} each",
             ]
         )
-    fuse = d.values.get("fuse")
+    line = stress.get("line_current_rms_A", 0.0)
     rows.append(
         [
             "Fuse (line)",
-            fv(fuse["rating"], "current") + f" {_e(fuse['kind'])}, {_e(fuse['standard'])}" if fuse else "—",
+            fv(d.fuse.rating, "current") + f" {_e(d.fuse.kind)}, {_e(d.fuse.standard)}" if d.fuse else "—",
             "",
-            f"≥ {fv(hi['line_current_rms_A'] / 0.75, 'current')}; breaking capacity for the supply",
+            f"≥ {fv(_need('fuse.rating', line), 'current')}; pre-arcing I²t ≥ {_need('fuse.i2t', i2t):.3g} A²s; "
+            "breaking capacity for the supply",
         ]
     )
-    sw = d.values.get("switch")
-    if sw:
+    if d.switch is not None:
+        sw = d.switch
         rows.append(
             [
                 "Switch",
-                fv(sw["rating"], "current"),
-                f"inrush {fv(sw['surge_rating'], 'current') if sw.get('surge_rating') else '—'}",
-                f"≥ {fv(hi['line_current_rms_A'], 'current')} rms; inrush ≥ {fv(ans['switch_on_peak_A'], 'current')}",
+                fv(sw.rating, "current"),
+                f"inrush {fv(sw.surge_rating, 'current') if sw.surge_rating else '—'}",
+                f"≥ {fv(_need('switch.rating', line), 'current')} rms; "
+                f"inrush ≥ {fv(ans['switch_on_peak_A'], 'current')}",
             ]
         )
     return rows
@@ -211,17 +291,17 @@ def wiring(d: Design, ans: dict[str, Any]) -> list[list[str]]:
     out = []
     checks = {c["id"]: c for c in ans["checks"]}
     for k, w in enumerate(d.wires):
-        size = wr.size_from_area(float(w["size"]))
+        size = wr.size_from_area(w.size)
         c = checks.get(f"wire.{k + 1}", {"values": {}})
         vals = c["values"]
-        table = w.get("table") or wr.default_table(size)
+        table = w.table or wr.default_table(size)
         amp = wr.ampacity(size, str(table)) if table in wr.AMPACITY else None
         out.append(
             [
-                _e(w["name"]),
+                _e(w.name),
                 _e(size.name),
-                fv(float(w["length"]), "length"),
-                _e(w["carries"]),
+                fv(w.length, "length"),
+                _e(w.carries),
                 fv(vals.get("current_A", 0.0), "current"),
                 fv(vals.get("drop_V", 0.0), "voltage"),
                 f"{vals.get('drop_fraction', 0.0):.2%}",
@@ -323,7 +403,9 @@ def schematic(d: Design) -> str:
         )
         if dr.get("capacitance"):
             parts.append(f'<rect x="{200 - 4}" y="{top - 14}" width="8" height="28" class="gap"/>')
-            parts.append(_cap_h(200, top, fv(float(dr["capacitance"]), "capacitance") + " X2"))
+            parts.append(
+                _cap_h(200, top, fv(float(dr["capacitance"]), "capacitance") + f" {dr.get('class') or 'class ?'}")
+            )
             if dr.get("bleeder"):
                 parts.append(
                     f'<path d="M180 {top} V{top - 34} H220 V{top}" class="wire"/>'
@@ -565,7 +647,9 @@ def checks_list(checks: list[dict[str, Any]]) -> str:
             f'<li class="lb-check lb-{_e(c["status"])}"><div class="lb-check-head">'
             f'<span class="lb-st lb-{_e(c["status"])}">{_e(c["status"].upper())}</span> '
             f"<code>{_e(c['id'])}</code></div>"
-            f'<p class="lb-check-finding">{_e(keep_numbers(str(c["message"])))}</p>'
+            f'<p class="lb-check-finding">{_e(keep_numbers(str(c["message"])))}'
+            + (f"<br>Would pass: {_e(keep_numbers(str(c['would_pass'])))}" if c.get("would_pass") else "")
+            + "</p>"
             f"<details><summary>Why and source</summary><p>{_e(keep_numbers(str(c['why'])))}</p>"
             f'<p class="lb-cite">Source: {_e(src)}{"†" if unverified else ""}</p></details></li>'
         )
@@ -623,11 +707,9 @@ def render(d: Design, ans: dict[str, Any], study: dict[str, Any] | None) -> str:
     if ans.get("waveform"):
         out.append(waveform(ans["waveform"]))
     if not d.is_cv:
+        out.append(switch_on_html(ans))
         out.append(
-            "<p>Switch-on at the crest, high mains: "
-            f"<strong>{_e(fv(ans['switch_on_peak_A'], 'current'))}</strong> peak, "
-            f"{_e(fv(ans['switch_on_energy_J'], 'energy'))} in the series resistor. "
-            "Every string open: the bus climbs to "
+            "<p>Every string open: the bus climbs to "
             f"<strong>{_e(fv(ans['open_load_bus_V'], 'voltage'))}</strong> "
             f"(time constant {_e(fv(ans['open_load_time_constant_s'], 'time'))}).</p>"
         )
@@ -636,6 +718,17 @@ def render(d: Design, ans: dict[str, Any], study: dict[str, Any] | None) -> str:
     out.append(camera_section(d, ans))
     out.append("<h2>Checks</h2>")
     out.append(checks_list(ans["checks"]))
+    if ans.get("corners"):
+        out.append("<h2>Worst corners</h2>")
+        out.append(_table(["stress", "worst value", "at"], corner_rows(ans)))
+    if ans.get("faults"):
+        out.append("<h2>Single faults</h2>")
+        out.append(
+            "<p>Each fault applied alone (IEC 60598-1 abnormal conditions, IEC 61347-1 fault conditions: the "
+            "standards decide; this is a design aid). <em>Hazard</em>: a part over its rating while the fuse does "
+            "not clear in time, or one failure leading to the next.</p>"
+        )
+        out.append(_table(["fault", "outcome", "fuse", "over rating", "leads to"], fault_rows(ans)))
     out.append("<h2>Bill of materials</h2>")
     out.append(_table(["part", "value", "declared", "required"], bom(d, ans)))
     wires = wiring(d, ans)
@@ -751,6 +844,9 @@ def mains_quality_section(d: Design, ans: dict[str, Any]) -> str:
         out.append(f"<p>{_e(ans.get('mains_note', ''))}</p>")
         return "\n".join(out)
     corners = ("low", "nominal", "high")
+    if not all(ans.get(c) and "thd" in ans[c] for c in corners):
+        out.append("<p>Not worked out: the strings do not conduct at every mains corner (see the checks).</p>")
+        return "\n".join(out)
     rows: list[tuple[str, Any]] = [
         ("THD (orders 2-40)", lambda p: _pct(p["thd"])),
         ("Displacement power factor", lambda p: f"{p['displacement_pf']:.3f}"),
@@ -780,7 +876,7 @@ def mains_quality_section(d: Design, ans: dict[str, Any]) -> str:
     notes = list(dict.fromkeys(n for c in corners for n in ans[c]["harmonic_notes"]))
     n = ans["nominal"]
     bands = list(dict.fromkeys(ans[c]["harmonic_band"] for c in corners))
-    out.append(f"<p>Judged as: {_e('; '.join(bands))}. {_e(RULES[n['harmonic_class']])}</p>")
+    out.append(f"<p>Judged as: {_e('; '.join(bands))}. {_e(HARMONIC_RULES[n['harmonic_class']])}</p>")
     out.append(
         f"<p class='lb-small'>Spectrum from the solver's exact waveform on {n['spectrum_samples_per_period']} "
         "points per period; class from the design file's <code>[emissions] class</code> "

@@ -241,37 +241,17 @@ def discharge() -> Table:
 
 
 def checks() -> Table:
-    from ..fixture.review import CHECK_IDS
+    """The checks reference, generated from the rule catalogue."""
+    from ..fixture.rules import RULES
 
-    what = {
-        "dropper.class": "dropper is an X1/X2 safety capacitor",
-        "dropper.ac_rating": "dropper AC rating against high mains",
-        "smoothing.open_load": "smoothing rating against the open-load bus (or a clamp)",
-        "smoothing.working_voltage": "bus in service against 80 % of rating",
-        "bleeder.dropper": "plug-pin discharge target met by the dropper bleeder",
-        "bleeder.smoothing": "bus discharged for service",
-        "bridge.surge": "switch-on peak against the bridge surge rating",
-        "bridge.vrrm": "reverse voltage with margin",
-        "bridge.average": "average current with the capacitive-load derating",
-        "bridge.thermal": "junction temperature or heatsink needed",
-        "fuse.rating": "line current against the fuse",
-        "switch.rating": "contact and inrush rating",
-        "smoothing.ripple_current": "ripple current against rating",
-        "smoothing.life": "estimated life at the stated ambient",
-        "led.current": "string current at the worst corner against the module maximum",
-        "flicker.ieee1789": "percent flicker against the IEEE 1789 bands",
-        "strings.sharing": "current sharing of parallel strings under Vf spread",
-        "mains.region": "design mains against the declared region",
-        "wire.N": "each wire run: current against its table, drop against the limit",
-        "ballast.power": "ballast dissipation (CV designs)",
-        "ballast.headroom": "headroom across the ballast (CV designs)",
-        "harmonics.iec61000_3_2": "line-current harmonics against IEC 61000-3-2 for the declared class",
-    }
     return Table(
         "Design review checks",
-        ("id", "what it checks"),
-        tuple((i, what.get(i, "")) for i in CHECK_IDS),
-        ("Each check's own source and the numbers behind it appear on every build sheet.",),
+        ("id", "what it checks", "protects against", "source"),
+        tuple((r.id, r.title, r.protects, r.source) for r in RULES.values()),
+        (
+            "Each stress is judged at the corner of the tolerance box that makes it worst; each check's numbers, "
+            "its corner and the value that would pass appear on every build sheet.",
+        ),
     )
 
 

@@ -88,6 +88,16 @@ DIMENSIONS: dict[str, Dimension] = {
         Dimension("frequency", "Hz", "50 Hz", ("Hz",), forms=("60Hz",)),
         Dimension("power", "W", "1.5 W", ("W",), forms=("500 mW",)),
         Dimension("energy", "J", "50 mJ", ("J",), forms=("0.05 J",)),
+        Dimension("inductance", "H", "0.8 mH", ("H",), forms=("800 uH",)),
+        Dimension(
+            "i2t",
+            "A²s",
+            "0.25 A²s",
+            (),
+            (("A²s", 1.0), ("A2s", 1.0), ("A^2s", 1.0), ("A^2 s", 1.0)),
+            use_prefixes=False,
+            forms=("0.25 A2s",),
+        ),
         Dimension("time", "s", "1 s", ("s", "sec"), (("min", 60.0), ("h", 3600.0)), forms=("500 ms", "2 min")),
         Dimension(
             "length",
