@@ -90,8 +90,23 @@ def _report(ans: dict[str, Any], written: str | None) -> str:
     reasons = [f"{p['series']} x {p['parallel']}: {p['rejected']}" for p in ans["proposals"] if p["rejected"]]
     if reasons:
         out += ["", bullets("Rejected before review:", reasons)]
+    failing = [
+        f"{p['series']} x {p['parallel']}: {cid}: {why}"
+        for p in ans["proposals"]
+        for cid, why in p.get("failed_why", {}).items()
+    ]
+    if failing:
+        out += ["", bullets("Failed in the review (the planner proposes, the review judges):", failing)]
     if ans["ok"]:
-        out += ["", "Best: the arrangement marked *; every offered design passed the whole review."]
+        best = ans["proposals"][ans["best"]]
+        warned = f"; warnings: {', '.join(best['warned'])}" if best["warned"] else ""
+        out += ["", f"Best: the arrangement marked *; it passed the whole review (no failing check{warned})."]
+        if best["hazards"]:
+            out.append(
+                "Its single-fault analysis finds hazards: "
+                + ", ".join(best["hazards"])
+                + " (see `lampbook check`; the fuse or a protective part must end them, or change the arrangement)."
+            )
         out.append(f"Written to {written}." if written else "Write it with -o DESIGN.toml, then `lampbook sheet`.")
     else:
         out += ["", f"No design: {ans['constraint']}."]

@@ -47,3 +47,26 @@ def test_command_bad_input_one_line_exit_2(tmp_path: Path) -> None:
     assert r.returncode == 2
     assert "modules" in r.stderr and "Traceback" not in r.stderr
     assert len(r.stderr.strip().splitlines()) == 1
+
+
+def test_command_names_each_failing_check_and_why(tmp_path: Path) -> None:
+    """One module on 230 V: the planner cannot hold flicker within the review's
+    limits (the bus capacitor's ESR, not its capacitance, sets the ripple on so
+    short a string), so it writes nothing, exits 1 and prints the failing
+    check with the review's own message."""
+    spec = tmp_path / "spec.toml"
+    spec.write_text(spec_text(MODULES["single-die 60 mA"], MAINS["230-50"], 1, "dropper"), encoding="utf-8")
+    out = tmp_path / "fixture.toml"
+    r = subprocess.run(
+        [sys.executable, "-m", "lampbook.cli", "plan", str(spec), "-o", str(out)], capture_output=True, text=True
+    )
+    assert r.returncode == 1, r.stdout + r.stderr
+    assert "Failed in the review" in r.stdout and "flicker.ieee1789: percent flicker" in r.stdout, r.stdout
+    assert "No design:" in r.stdout and not out.exists()
+    r = subprocess.run(
+        [sys.executable, "-m", "lampbook.cli", "plan", str(spec), "--json"], capture_output=True, text=True
+    )
+    body = json.loads(r.stdout)
+    assert not body["ok"] and "design" not in body
+    why = body["proposals"][0]["failed_why"]
+    assert set(why) == set(body["proposals"][0]["failed"]) and all(why.values())

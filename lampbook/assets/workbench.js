@@ -302,9 +302,16 @@ export async function initWorkbench(box, engine) {
       }
       return;
     }
-    if (!ans.doc) { out.innerHTML = `<li>no design: ${esc(ans.constraint)}</li>`; return; }
+    const why = (q) => Object.entries(q.failed_why || {})
+      .map(([id, m]) => `<li>${q.series} × ${q.parallel}: ${esc(id)}: ${esc(m)}</li>`).join("");
+    if (!ans.doc) {
+      out.innerHTML = `<li>no design: ${esc(ans.constraint)}</li>` + ans.proposals.map(why).join("");
+      return;
+    }
     const p = ans.proposals[ans.best];
-    out.innerHTML = `<li>planned ${p.series} × ${p.parallel} on ${esc(p.supply)}; every offered design passed the review</li>`
+    out.innerHTML = `<li>planned ${p.series} × ${p.parallel} on ${esc(p.supply)}; it passed the review (no failing check)`
+      + (p.warned.length ? `; warnings: ${esc(p.warned.join(", "))}` : "") + "</li>"
+      + (p.hazards.length ? `<li>single-fault hazards the review finds: ${esc(p.hazards.join(", "))}</li>` : "")
       + ans.notes.map((n) => `<li>${esc(n)}</li>`).join("");
     doc = ans.doc;
     doc.wires ||= [];
