@@ -27,13 +27,28 @@ WHEELS = ROOT / ".cache" / "wheels"
 _CORE_ONLY = {"lampcalc", "pytest", "hypothesis"}
 
 
+def native_only(tree: ast.Module) -> bool:
+    """A file whose module-level ``pytestmark`` names ``pytest.mark.native`` (alone or in a list) is kept
+    out of this tier: a slow sweep of the core (the planner's grid) runs natively only, while a small test
+    of the same code stays in a file this tier finds."""
+    for node in tree.body:
+        if isinstance(node, ast.Assign) and any(isinstance(t, ast.Name) and t.id == "pytestmark" for t in node.targets):
+            marks = node.value.elts if isinstance(node.value, (ast.List, ast.Tuple)) else [node.value]
+            if any(isinstance(m, ast.Attribute) and m.attr == "native" for m in marks):
+                return True
+    return False
+
+
 def core_test_files() -> list[str]:
     """Every test file that tests the core alone: it imports lampcalc, and
     otherwise only the standard library, pytest and hypothesis. Found by reading the imports, so a
-    new test file of the core runs here without being listed."""
+    new test file of the core runs here without being listed; a file marked ``native`` (see
+    :func:`native_only`) is left out."""
     out = []
     for path in sorted((ROOT / "tests").glob("test_*.py")):
         tree = ast.parse(path.read_text(encoding="utf-8"))
+        if native_only(tree):
+            continue
         names = set()
         for node in ast.walk(tree):
             if isinstance(node, ast.Import):
@@ -49,6 +64,10 @@ def test_every_core_test_file_is_found() -> None:
     found = core_test_files()
     assert {"test_units.py", "test_reference.py", "test_core.py", "test_steady.py", "test_review.py"} <= set(found)
     assert "test_cli.py" not in found and "test_plugin.py" not in found
+    # the planner: its small tests run in Pyodide, its grid (marked native) only natively
+    assert "test_plan.py" in found and "test_plan_grid.py" not in found
+    assert native_only(ast.parse((ROOT / "tests" / "test_plan_grid.py").read_text(encoding="utf-8")))
+    assert not native_only(ast.parse((ROOT / "tests" / "test_plan.py").read_text(encoding="utf-8")))
 
 
 def test_core_suite_inside_the_trimmed_engine(tmp_path: Path) -> None:
