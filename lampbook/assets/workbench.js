@@ -11,7 +11,7 @@ const DELAY = 350; // ms after the last keystroke
 const TITLES = {
   "": "Fixture", mains: "Mains", supply: "Constant-voltage supply", module: "LED module", array: "Array",
   dropper: "Dropper", bridge: "Bridge rectifier", smoothing: "Smoothing capacitor", fuse: "Fuse", switch: "Switch",
-  review: "Review settings",
+  review: "Review settings", emissions: "Harmonics class", light: "Light output", camera: "Camera",
 };
 
 /**
