@@ -217,6 +217,7 @@ def render(block: Block, safety_url: str | None) -> str:
 
 
 def render_table(index: int, body: str) -> str:
+    from lampcalc.present.sheet import keep_numbers
     from lampcalc.present.tables import TABLES
 
     opts = {}
@@ -231,7 +232,7 @@ def render_table(index: int, body: str) -> str:
         raise BlockError(index, next(iter(opts)), "tables take only 'table'")
     t = TABLES[name]()
     head = "".join(f"<th>{_esc(h)}</th>" for h in t.headers)
-    body_html = "".join("<tr>" + "".join(f"<td>{_esc(c)}</td>" for c in r) + "</tr>" for r in t.rows)
+    body_html = "".join("<tr>" + "".join(f"<td>{_esc(keep_numbers(c))}</td>" for c in r) + "</tr>" for r in t.rows)
     src = "".join(f"<li>{_esc(x)}</li>" for x in t.sources)
     return (
         f'<div class="lb-reftable" data-table="{_esc(name)}">'

@@ -651,7 +651,7 @@ def checks_list(checks: list[dict[str, Any]]) -> str:
             + (f"<br>Would pass: {_e(keep_numbers(str(c['would_pass'])))}" if c.get("would_pass") else "")
             + "</p>"
             f"<details><summary>Why and source</summary><p>{_e(keep_numbers(str(c['why'])))}</p>"
-            f'<p class="lb-cite">Source: {_e(src)}{"†" if unverified else ""}</p></details></li>'
+            f'<p class="lb-cite">Source: {_e(keep_numbers(src))}{"†" if unverified else ""}</p></details></li>'
         )
     note = f'<p class="lb-unverified">{_e(UNVERIFIED_NOTE)}</p>' if any_unverified else ""
     return '<ul class="lb-checklist">' + "".join(items) + "</ul>" + note
