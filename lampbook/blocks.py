@@ -217,6 +217,7 @@ def render(block: Block, safety_url: str | None) -> str:
 
 
 def render_table(index: int, body: str) -> str:
+    from lampcalc.cautions import UNVERIFIED_NOTE, daggered
     from lampcalc.present.sheet import keep_numbers
     from lampcalc.present.tables import TABLES
 
@@ -231,9 +232,19 @@ def render_table(index: int, body: str) -> str:
     if opts:
         raise BlockError(index, next(iter(opts)), "tables take only 'table'")
     t = TABLES[name]()
+    # a limit recalled rather than read against its standard: a dagger in its cell or source, one note below
+    marked: list[bool] = []
+
+    def cell(text: str) -> str:
+        out, unverified = daggered(text)
+        marked.append(unverified)
+        return _esc(keep_numbers(out))
+
     head = "".join(f"<th>{_esc(h)}</th>" for h in t.headers)
-    body_html = "".join("<tr>" + "".join(f"<td>{_esc(keep_numbers(c))}</td>" for c in r) + "</tr>" for r in t.rows)
-    src = "".join(f"<li>{_esc(x)}</li>" for x in t.sources)
+    body_html = "".join("<tr>" + "".join(f"<td>{cell(c)}</td>" for c in r) + "</tr>" for r in t.rows)
+    src = "".join(f"<li>{cell(x)}</li>" for x in t.sources)
+    if any(marked):
+        src += f'<li class="lb-unverified">{_esc(UNVERIFIED_NOTE)}</li>'
     return (
         f'<div class="lb-reftable" data-table="{_esc(name)}">'
         f'<p class="lb-tabletitle"><strong>{_esc(t.title)}</strong></p>'

@@ -131,6 +131,23 @@ def test_wire_smallest_size_meets_limit() -> None:
     assert float(r3.values["drop_fraction"]) > 0.03  # type: ignore[arg-type]
 
 
+def test_recalled_limits_marked_once_with_a_dagger() -> None:
+    # A value recalled rather than read against its standard (the IEC 60335-1 cord table and the IEEE 1789
+    # band are marked so in the core's data) reaches the reader as a dagger and one explanatory note.
+    from lampcalc.cautions import UNVERIFIED_NOTE
+
+    marked = 0
+    for name in CALCULATORS:
+        ans = compute(name, {"ampacity_table": "iec-cord"} if name == "wire" else {})
+        shown = [*ans["display"].values(), *ans["notes"], *ans["warnings"]]
+        assert not [t for t in shown if "from memory" in str(t)], name
+        daggers = sum(str(t).count("†") for t in shown if t != UNVERIFIED_NOTE)
+        assert ans["notes"].count(UNVERIFIED_NOTE) == (1 if daggers else 0), name
+        marked += daggers > 0
+    assert marked >= 3  # wire (cord table), ripple and camera (flicker band)
+    assert "†" in compute("wire", {"ampacity_table": "iec-cord"})["display"]["ampacity_table"]
+
+
 def test_api_handle_json_round_trip() -> None:
     import json
 

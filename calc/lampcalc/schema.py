@@ -14,6 +14,7 @@ from collections.abc import Callable, Mapping
 from dataclasses import dataclass
 
 from . import cautions
+from .cautions import UNVERIFIED_NOTE, daggered
 from .errors import InputError, InputErrors
 from .quantities.regions import PRESETS
 from .quantities.units import dimension, format_value, parse
@@ -216,11 +217,25 @@ def to_json(calc: Calculator, result: Result) -> dict[str, object]:
             return shown[o.name]
         return format_output(Output(o.name, o.label, dims.get(o.name, o.dim)), v)
 
+    # a limit recalled rather than read against its standard: a dagger where it is used, one note saying so
+    unverified = False
+
+    def mark(text: str) -> str:
+        nonlocal unverified
+        out, u = daggered(text)
+        unverified |= u
+        return out
+
+    shown_all = {o.name: mark(display(o, result.values.get(o.name))) for o in calc.outputs}
+    notes = [mark(n) for n in notes]
+    warnings = [mark(w) for w in result.warnings]
+    if unverified:
+        notes.append(UNVERIFIED_NOTE)
     return {
         "calculator": calc.name,
         "ok": True,
         "values": {o.name: clean(result.values.get(o.name)) for o in calc.outputs},
-        "display": {o.name: display(o, result.values.get(o.name)) for o in calc.outputs},
+        "display": shown_all,
         "rows": [{c.name: clean(r.get(c.name)) for c in calc.columns} for r in result.rows],
         "rows_display": [
             {
@@ -230,7 +245,7 @@ def to_json(calc: Calculator, result: Result) -> dict[str, object]:
             for r in result.rows
         ],
         "notes": notes,
-        "warnings": list(result.warnings),
+        "warnings": warnings,
         "cautions": list(calc.cautions if result.cautions is None else result.cautions),
     }
 
