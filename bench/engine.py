@@ -251,12 +251,12 @@ def load() -> float:
 def bench_engine(runs: int = 5, configs: dict[str, str] | None = None) -> dict[str, Any]:
     """Every configuration (name -> plugin options) over both servers."""
     from playwright.sync_api import sync_playwright
-    from test_browser import ARGS, CHROMIUM
+    from sites import launch
 
     configs = configs if configs is not None else {"shipped": ""}
     res: dict[str, Any] = {"load_before": load()}
     with tempfile.TemporaryDirectory() as d, sync_playwright() as p:
-        browser = p.chromium.launch(executable_path=CHROMIUM, args=ARGS)
+        browser = launch(p)
         for name, options in configs.items():
             folder = Path(d) / name
             build_s = build_demo(folder, options)

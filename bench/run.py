@@ -128,11 +128,11 @@ def build_site(folder: Path, compile_stdlib: bool) -> float:
 
 def bench_browser() -> dict[str, object]:
     from playwright.sync_api import sync_playwright
-    from test_browser import ARGS, CHROMIUM
+    from sites import launch
 
     res: dict[str, object] = {}
     with tempfile.TemporaryDirectory() as d, sync_playwright() as p:
-        browser = p.chromium.launch(executable_path=CHROMIUM, args=ARGS)
+        browser = launch(p)
         for compiled in (True, False):
             folder = Path(d) / ("compiled" if compiled else "source")
             build_s = build_site(folder, compiled)
