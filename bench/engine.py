@@ -21,7 +21,6 @@ import gzip
 import http.server
 import json
 import os
-import shutil
 import statistics
 import sys
 import tempfile
@@ -154,19 +153,9 @@ class CountingServer:
 
 def build_demo(folder: Path, options: str = "") -> float:
     """Build the demo handbook into FOLDER/site with extra plugin OPTIONS (YAML lines)."""
-    from sites import build
+    from sites import build, write_demo
 
-    shutil.copytree(ROOT / "docs", folder / "docs")
-    y = (
-        (ROOT / "mkdocs.yml")
-        .read_text()
-        .replace(
-            "  - lampbook:\n",
-            f"  - lampbook:\n      runtime: {ROOT / 'node_modules' / 'pyodide'}\n"
-            f"      cache_dir: {ROOT / '.cache' / 'lampbook'}\n" + options,
-        )
-    )
-    (folder / "mkdocs.yml").write_text(y)
+    write_demo(folder, options)
     t0 = time.perf_counter()
     r = build(folder)
     if r.returncode:
