@@ -70,6 +70,25 @@ def write_demo(folder: Path, options: str = "") -> Path:
     return folder
 
 
+def write_scaffold(folder: Path) -> Path:
+    """A handbook made by `lampbook new` in FOLDER, given the Pyodide package and the cache of this repository."""
+    r = subprocess.run(
+        [sys.executable, "-m", "lampbook.cli", "new", str(folder), "--name", "Bench book"],
+        capture_output=True,
+        text=True,
+    )
+    assert r.returncode == 0, r.stderr
+    # what `npm install pyodide@VERSION` would put there: the same package this repository pins
+    (folder / "node_modules").mkdir()
+    (folder / "node_modules" / "pyodide").symlink_to(RUNTIME)
+    y = (folder / "mkdocs.yml").read_text()
+    assert "      designs: designs\n" in y
+    (folder / "mkdocs.yml").write_text(
+        y.replace("      designs: designs\n", f"      designs: designs\n      cache_dir: {CACHE}\n")
+    )
+    return folder
+
+
 def build(folder: Path, strict: bool = True) -> subprocess.CompletedProcess[str]:
     args = [sys.executable, "-m", "mkdocs", "build", "-q"] + (["--strict"] if strict else [])
     env = {**os.environ, "NO_MKDOCS_2_WARNING": "1"}

@@ -11,7 +11,7 @@ from pathlib import Path
 
 import pytest
 from lampcalc.api import compute
-from sites import ROOT, Server, build, built_and_served, launch, write_demo
+from sites import ROOT, Server, build, built_and_served, launch, write_demo, write_scaffold
 
 pytestmark = pytest.mark.browser
 
@@ -243,28 +243,7 @@ def test_demo_pages_fetch_nothing_foreign(demo: tuple[Path, Server], browser: ob
 
 
 def test_scaffolded_handbook_works_offline(tmp_path: Path, browser: object) -> None:
-    import subprocess
-    import sys
-
-    folder = tmp_path / "mine"
-    r = subprocess.run(
-        [sys.executable, "-m", "lampbook.cli", "new", str(folder), "--name", "Bench book"],
-        capture_output=True,
-        text=True,
-    )
-    assert r.returncode == 0, r.stderr
-    # what `npm install pyodide@VERSION` would put there: the same package this repository pins
-    (folder / "node_modules").mkdir()
-    (folder / "node_modules" / "pyodide").symlink_to(ROOT / "node_modules" / "pyodide")
-    y = (
-        (folder / "mkdocs.yml")
-        .read_text()
-        .replace(
-            "      designs: designs",
-            f"      designs: designs\n      cache_dir: {ROOT / '.cache' / 'lampbook'}",
-        )
-    )
-    (folder / "mkdocs.yml").write_text(y)
+    folder = write_scaffold(tmp_path / "mine")
     with built_and_served(folder) as srv:
         assert (folder / "site" / "designs" / "first-fixture" / "index.html").is_file()
         v = Visit(browser, srv.url)

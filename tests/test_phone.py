@@ -8,13 +8,11 @@ lines in its tables and lists. A full-page screenshot of every page is kept in t
 
 from __future__ import annotations
 
-import subprocess
-import sys
 from collections.abc import Iterator
 from pathlib import Path
 
 import pytest
-from sites import ROOT, Server, built_and_served, write_demo
+from sites import ROOT, Server, built_and_served, write_demo, write_scaffold
 from test_browser import Visit
 
 pytestmark = pytest.mark.browser
@@ -178,22 +176,7 @@ def demo_site(tmp_path_factory: pytest.TempPathFactory) -> Iterator[tuple[Path, 
 
 @pytest.fixture(scope="module")
 def scaffold_site(tmp_path_factory: pytest.TempPathFactory) -> Iterator[tuple[Path, Server]]:
-    folder = tmp_path_factory.mktemp("mine") / "book"
-    r = subprocess.run(
-        [sys.executable, "-m", "lampbook.cli", "new", str(folder), "--name", "Bench book"],
-        capture_output=True,
-        text=True,
-    )
-    assert r.returncode == 0, r.stderr
-    (folder / "node_modules").mkdir()
-    (folder / "node_modules" / "pyodide").symlink_to(ROOT / "node_modules" / "pyodide")
-    y = (folder / "mkdocs.yml").read_text()
-    assert "      designs: designs\n" in y
-    (folder / "mkdocs.yml").write_text(
-        y.replace(
-            "      designs: designs\n", f"      designs: designs\n      cache_dir: {ROOT / '.cache' / 'lampbook'}\n"
-        )
-    )
+    folder = write_scaffold(tmp_path_factory.mktemp("mine") / "book")
     with built_and_served(folder) as srv:
         yield folder / "site", srv
 
