@@ -158,19 +158,22 @@ def render(block: Block, safety_url: str | None) -> str:
         )
     main = [o for o in calc.outputs if o.name in calc.main]
     pin = "".join(
-        f'<div class="lb-pin-item" data-pin="{_esc(o.name)}"{" hidden" if ans["values"].get(o.name) is None else ""}>'
+        f'<div class="lb-pin-item" data-pin="{_esc(o.name)}"{"" if o.name in ans["applies"] else " hidden"}>'
         f'<span class="lb-pin-label">{_esc(o.label)}</span>'
         f'<span class="lb-pin-value">{_esc(ans["display"][o.name])}</span></div>'
         for o in main
     )
     outs = []
     for o in calc.outputs:
-        v = ans["values"].get(o.name)
         shown = ans["display"][o.name]
         outs.append(
-            f'<tr data-out="{_esc(o.name)}"{" hidden" if v is None else ""}'
+            f'<tr data-out="{_esc(o.name)}"{"" if o.name in ans["applies"] else " hidden"}'
             # words wrap; a number with its unit never does
-            + (' class="lb-text">' if o.dim == "text" else ">")
+            + (
+                ' class="lb-text">'
+                if o.dim == "text"
+                else (' class="lb-na">' if ans["values"].get(o.name) is None else ">")
+            )
             + f"<th>{_esc(o.label)}</th><td>{_esc(shown)}</td></tr>"
         )
     has_imperial = any(p.imperial for p in calc.params)

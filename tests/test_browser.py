@@ -111,7 +111,7 @@ def block_inputs(v: Visit, box: str) -> dict[str, str]:
             k: val
             for k, val in v.page.evaluate(
                 f"""Object.fromEntries([...document.querySelectorAll('#{box} .lb-form [name]')]
-            .filter(e => !e.closest('.lb-field').hidden && e.value.trim() !== '').map(e => [e.name, e.value]))"""
+            .filter(e => !e.closest('.lb-field').hidden).map(e => [e.name, e.value]))"""
             ).items()
         }
         if data
@@ -147,6 +147,18 @@ def test_error_shows_beside_field(demo: tuple[Path, Server], browser: object) ->
     v.set("lb-dropper-1", "capacitance", "2.2")
     err = v.page.locator("#lb-dropper-1 .lb-field.lb-bad .lb-err").inner_text()
     assert "expected a capacitance" in err
+
+
+def test_blank_field_is_an_error_not_the_default(demo: tuple[Path, Server], browser: object) -> None:
+    # a cleared field with a usual value must not silently compute with that value
+    v = Visit(browser, demo[1].url)
+    v.open("calculators/dropper/")
+    v.ready()
+    v.set("lb-dropper-1", "capacitance", "")
+    err = v.page.locator("#lb-dropper-1 .lb-field.lb-bad .lb-err").inner_text()
+    assert "needs a value" in err
+    assert "lb-stale" in (v.page.locator("#lb-dropper-1").get_attribute("class") or "")
+    assert not v.errors
 
 
 def test_prerendered_answer_without_javascript(demo: tuple[Path, Server], browser: object) -> None:

@@ -148,6 +148,29 @@ def test_recalled_limits_marked_once_with_a_dagger() -> None:
     assert "†" in compute("wire", {"ampacity_table": "iec-cord"})["display"]["ampacity_table"]
 
 
+def test_a_row_that_does_not_apply_says_so() -> None:
+    # An output of the answer's own mode with no value reads "does not apply" instead of vanishing; an output
+    # of another mode is not part of the answer (issue of consistency, no outside reference needed: the rule is
+    # about what is shown, and each case is checked against the value the calculator returns).
+    dropper = compute("dropper", {})
+    assert "capacitance_needed" in dropper["applies"] and dropper["values"]["capacitance_needed"] is None
+    assert dropper["display"]["capacitance_needed"] == "does not apply: no target current given"
+    cv = compute("string", {"supply": "cv"})
+    assert "ballast" in cv["applies"] and cv["values"]["ballast"] is not None
+    assert "capacitance" not in cv["applies"] and "voltage_cold" not in cv["applies"]
+    feed = compute("string", {"supply": "dropper", "current": "30 mA"})
+    assert "capacitance" in feed["applies"] and feed["values"]["capacitance"] is not None
+    assert "ballast" not in feed["applies"]
+    for name in CALCULATORS:
+        calc = CALCULATORS[name]
+        for mode in calc.param(calc.mode).choices if calc.mode else (None,):
+            ans = compute(name, {calc.mode: mode} if mode else {})
+            # every output a mode leaves without a value belongs to another mode, or says it does not apply
+            for o in calc.outputs:
+                if ans["values"][o.name] is None and o.name in ans["applies"]:
+                    assert ans["display"][o.name] not in ("", "—"), (name, mode, o.name)
+
+
 def test_api_handle_json_round_trip() -> None:
     import json
 

@@ -11,7 +11,7 @@ from __future__ import annotations
 
 import math
 from collections.abc import Callable, Mapping
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 from . import cautions
 from .cautions import UNVERIFIED_NOTE, daggered
@@ -47,6 +47,11 @@ class Output:
     label: str
     dim: str  # a units dimension, or "text"
     help: str = ""
+    #: the modes whose answer includes this output (empty: every mode); in another mode it is not shown at all,
+    #: while in its own mode an output with no value reads "does not apply"
+    modes: tuple[str, ...] = ()
+    #: why the output has no value when it has none (shown after "does not apply: ")
+    absent: str = ""
 
 
 @dataclass(frozen=True)
@@ -60,6 +65,7 @@ class Result:
     # not apply says why rather than vanishing)
     display: Mapping[str, str] | None = None
     dims: Mapping[str, str] | None = None  # an output's dimension when it follows the input's
+    mode: str | None = None  # the value of the calculator's mode input this answer was computed in
 
 
 @dataclass(frozen=True)
@@ -181,7 +187,11 @@ def _blank_expected(p: Param) -> str:
 
 
 def evaluate(calc: Calculator, raw: Mapping[str, object]) -> Result:
-    return calc.compute(parse_inputs(calc, raw))
+    inputs = parse_inputs(calc, raw)
+    result = calc.compute(inputs)
+    if calc.mode and result.mode is None:
+        result = replace(result, mode=str(inputs.get(calc.mode)))
+    return result
 
 
 def format_output(o: Output, v: Value, digits: int | None = 4) -> str:
@@ -215,6 +225,8 @@ def to_json(calc: Calculator, result: Result) -> dict[str, object]:
     def display(o: Output, v: Value) -> str:
         if o.name in shown:
             return shown[o.name]
+        if v is None:
+            return f"does not apply: {o.absent}" if o.absent else "does not apply"
         return format_output(Output(o.name, o.label, dims.get(o.name, o.dim)), v)
 
     # a limit recalled rather than read against its standard: a dagger where it is used, one note saying so
@@ -244,6 +256,9 @@ def to_json(calc: Calculator, result: Result) -> dict[str, object]:
             }
             for r in result.rows
         ],
+        # the outputs this answer includes: those of its mode (an output with no value among them reads
+        # "does not apply"); the others belong to another mode and are not shown
+        "applies": [o.name for o in calc.outputs if not o.modes or result.mode in o.modes],
         "notes": notes,
         "warnings": warnings,
         "cautions": list(calc.cautions if result.cautions is None else result.cautions),
@@ -277,7 +292,10 @@ def describe(calc: Calculator) -> dict[str, object]:
             }
             for p in calc.params
         ],
-        "outputs": [{"name": o.name, "label": o.label, "dim": o.dim, "help": o.help} for o in calc.outputs],
+        "outputs": [
+            {"name": o.name, "label": o.label, "dim": o.dim, "help": o.help, "modes": list(o.modes)}
+            for o in calc.outputs
+        ],
         "columns": [{"name": o.name, "label": o.label, "dim": o.dim} for o in calc.columns],
         "plots": list(calc.plots),
         "main": list(calc.main),

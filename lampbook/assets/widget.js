@@ -101,7 +101,9 @@ function inputsOf(box) {
   for (const el of box.querySelectorAll(".lb-form [name]")) {
     const field = el.closest(".lb-field");
     if (field && field.hidden) continue;
-    if (el.value.trim() !== "") out[el.name] = el.value;
+    // a blank goes to the engine as a blank: a field with a usual value is then an error, never that value
+    // silently; an optional one stays unset
+    out[el.name] = el.value;
   }
   return out;
 }
@@ -178,7 +180,10 @@ function render(box, decl, ans) {
         const fold = f.closest(".lb-more");
         if (fold) fold.open = true;
         f.classList.add("lb-bad");
-        f.querySelector(".lb-err").textContent = e.expected ? `expected ${e.expected}` : e.message;
+        const blank = input.value.trim() === "" && input.dataset.default;
+        f.querySelector(".lb-err").textContent = blank
+          ? `needs a value: a blank is not read as ${input.dataset.default}`
+          : e.expected ? `expected ${e.expected}` : e.message;
       } else loose.push(e.message);
     }
     warn.innerHTML = loose.map((m) => `<li>${esc(m)}</li>`).join("");
@@ -188,13 +193,14 @@ function render(box, decl, ans) {
   box.classList.remove("lb-stale");
   for (const tr of box.querySelectorAll("tr[data-out]")) {
     const k = tr.dataset.out;
-    tr.hidden = ans.values[k] === null || ans.values[k] === undefined;
+    tr.hidden = !ans.applies.includes(k); // another mode's output; one of this mode with no value says so
+    tr.classList.toggle("lb-na", ans.values[k] === null || ans.values[k] === undefined);
     tr.querySelector("td").textContent = shown(box, decl, ans, k);
     if (tr.classList.contains("lb-text")) keepNumbers(tr);
   }
   for (const item of box.querySelectorAll(".lb-pin-item")) {
     const k = item.dataset.pin;
-    item.hidden = ans.values[k] === null || ans.values[k] === undefined;
+    item.hidden = !ans.applies.includes(k);
     item.querySelector(".lb-pin-value").textContent = shown(box, decl, ans, k);
   }
   warn.innerHTML = ans.warnings.map((m) => `<li>${esc(m)}</li>`).join("");
