@@ -318,6 +318,37 @@ def test_engine_timeout_is_shown(tmp_path: Path, browser: object) -> None:
         assert v.out("lb-preferred-1", "nearest") == compute("preferred", {})["display"]["nearest"]
 
 
+# A worker that starts, leaves its first request unanswered (a long computation) and dies on the second
+# (an uncaught error inside it).
+DYING_WORKER = """self.postMessage({ type: "ready" });
+let queries = 0;
+self.onmessage = (e) => {
+  if (e.data && e.data.type === "query" && ++queries === 2) setTimeout(() => { throw new Error("engine crashed"); });
+};
+"""
+
+
+def test_worker_death_refuses_pending_requests(tmp_path: Path, browser: object) -> None:
+    # a request in flight when the engine dies is refused with the reason: the form is marked stale and the
+    # status says why, instead of waiting for an answer that cannot come
+    from sites import write_site
+
+    folder = write_site(tmp_path / "w", {"index.md": "# W\n\n```lampbook\ncalculator: preferred\n```\n"})
+    with built_and_served(folder) as srv:
+        v = Visit(browser, srv.url)
+        v.ctx.route(
+            re.compile(r".*assets/lampbook/worker[.]js$"),
+            lambda route: route.fulfill(status=200, content_type="text/javascript", body=DYING_WORKER),
+        )
+        v.open("")
+        v.ready()
+        v.page.locator("#lb-preferred-1 [name=value]").fill("47k")
+        v.page.wait_for_selector("#lb-preferred-1.lb-stale", timeout=30000)
+        assert "engine stopped" in (v.page.get_attribute("#lb-preferred-1", "data-engine-error") or "")
+        assert "engine crashed" in v.page.locator(".lb-engine").first.inner_text()
+        assert v.page.locator(".lb-engine").first.get_attribute("data-state", timeout=1000).startswith("failed")
+
+
 # --- offline status: "offline-ready" is a claim, made only when it is true ---------------------------------
 
 
