@@ -21,7 +21,6 @@ import gzip
 import http.server
 import json
 import os
-import shutil
 import statistics
 import sys
 import tempfile
@@ -154,19 +153,9 @@ class CountingServer:
 
 def build_demo(folder: Path, options: str = "") -> float:
     """Build the demo handbook into FOLDER/site with extra plugin OPTIONS (YAML lines)."""
-    from sites import build
+    from sites import build, write_demo
 
-    shutil.copytree(ROOT / "docs", folder / "docs")
-    y = (
-        (ROOT / "mkdocs.yml")
-        .read_text()
-        .replace(
-            "  - lampbook:\n",
-            f"  - lampbook:\n      runtime: {ROOT / 'node_modules' / 'pyodide'}\n"
-            f"      cache_dir: {ROOT / '.cache' / 'lampbook'}\n" + options,
-        )
-    )
-    (folder / "mkdocs.yml").write_text(y)
+    write_demo(folder, options)
     t0 = time.perf_counter()
     r = build(folder)
     if r.returncode:
@@ -251,12 +240,12 @@ def load() -> float:
 def bench_engine(runs: int = 5, configs: dict[str, str] | None = None) -> dict[str, Any]:
     """Every configuration (name -> plugin options) over both servers."""
     from playwright.sync_api import sync_playwright
-    from test_browser import ARGS, CHROMIUM
+    from sites import launch
 
     configs = configs if configs is not None else {"shipped": ""}
     res: dict[str, Any] = {"load_before": load()}
     with tempfile.TemporaryDirectory() as d, sync_playwright() as p:
-        browser = p.chromium.launch(executable_path=CHROMIUM, args=ARGS)
+        browser = launch(p)
         for name, options in configs.items():
             folder = Path(d) / name
             build_s = build_demo(folder, options)

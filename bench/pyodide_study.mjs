@@ -1,18 +1,8 @@
 // Time the tolerance study (1,000 samples) and one steady state inside Pyodide on Node.
 // usage: node pyodide_study.mjs PYODIDE_DIR LAMPCALC_WHEEL DESIGN.toml...
-import { readFileSync } from "node:fs";
-import { join, basename } from "node:path";
-import { pathToFileURL } from "node:url";
+import { timeEachDesign } from "./pyodide_node.mjs";
 
-const [, , dir, wheel, ...designs] = process.argv;
-const { loadPyodide } = await import(pathToFileURL(join(dir, "pyodide.mjs")).href);
-const py = await loadPyodide({ indexURL: dir.endsWith("/") ? dir : dir + "/" });
-const site = py.runPython("import sysconfig; sysconfig.get_paths()['purelib']");
-py.unpackArchive(new Uint8Array(readFileSync(wheel)), "wheel", { extractDir: site });
-const out = {};
-for (const d of designs) {
-  py.globals.set("toml_text", readFileSync(d, "utf8"));
-  const r = py.runPython(`
+await timeEachDesign(`
 import time, json
 from lampcalc.fixture.design import parse_design
 from lampcalc.fixture.tolerance import study
@@ -29,6 +19,3 @@ if not d.is_cv:
 json.dumps({"study_s": best, "samples": s["samples"], "exact_solves": s["exact_solves"], "solve_s": solve_s,
             "max_relative_error": s["reduced_model"]["max_relative_error"]})
 `);
-  out[basename(d)] = JSON.parse(r);
-}
-console.log(JSON.stringify(out));

@@ -14,7 +14,6 @@ from __future__ import annotations
 
 import json
 import os
-import shutil
 import statistics
 import subprocess
 import sys
@@ -104,38 +103,17 @@ class Counting:
         self.httpd.shutdown()
 
 
-def build_site(folder: Path, compile_stdlib: bool) -> float:
-    from sites import build
-
-    shutil.copytree(ROOT / "docs", folder / "docs")
-    y = (
-        (ROOT / "mkdocs.yml")
-        .read_text()
-        .replace(
-            "  - lampbook:\n",
-            f"  - lampbook:\n      runtime: {ROOT / 'node_modules' / 'pyodide'}\n"
-            f"      cache_dir: {ROOT / '.cache' / 'lampbook'}\n"
-            f"      compile_stdlib: {'true' if compile_stdlib else 'false'}\n",
-        )
-    )
-    (folder / "mkdocs.yml").write_text(y)
-    t0 = time.perf_counter()
-    r = build(folder)
-    if r.returncode:
-        raise SystemExit(r.stderr)
-    return time.perf_counter() - t0
-
-
 def bench_browser() -> dict[str, object]:
+    from engine import build_demo
     from playwright.sync_api import sync_playwright
-    from test_browser import ARGS, CHROMIUM
+    from sites import launch
 
     res: dict[str, object] = {}
     with tempfile.TemporaryDirectory() as d, sync_playwright() as p:
-        browser = p.chromium.launch(executable_path=CHROMIUM, args=ARGS)
+        browser = launch(p)
         for compiled in (True, False):
             folder = Path(d) / ("compiled" if compiled else "source")
-            build_s = build_site(folder, compiled)
+            build_s = build_demo(folder, f"      compile_stdlib: {'true' if compiled else 'false'}\n")
             srv = Counting(folder / "site")
             rows = {"cold": [], "warm": []}  # type: dict[str, list[dict[str, float]]]
             first_bytes = []

@@ -160,19 +160,22 @@ def render(block: Block, safety_url: str | None) -> str:
         )
     main = [o for o in calc.outputs if o.name in calc.main]
     pin = "".join(
-        f'<div class="lb-pin-item" data-pin="{_esc(o.name)}"{" hidden" if ans["values"].get(o.name) is None else ""}>'
+        f'<div class="lb-pin-item" data-pin="{_esc(o.name)}"{"" if o.name in ans["applies"] else " hidden"}>'
         f'<span class="lb-pin-label">{_esc(o.label)}</span>'
         f'<span class="lb-pin-value">{_esc(ans["display"][o.name])}</span></div>'
         for o in main
     )
     outs = []
     for o in calc.outputs:
-        v = ans["values"].get(o.name)
         shown = ans["display"][o.name]
         outs.append(
-            f'<tr data-out="{_esc(o.name)}"{" hidden" if v is None else ""}'
+            f'<tr data-out="{_esc(o.name)}"{"" if o.name in ans["applies"] else " hidden"}'
             # words wrap; a number with its unit never does
-            + (' class="lb-text">' if o.dim == "text" else ">")
+            + (
+                ' class="lb-text">'
+                if o.dim == "text"
+                else (' class="lb-na">' if ans["values"].get(o.name) is None else ">")
+            )
             + f"<th>{_esc(o.label)}</th><td>{_esc(shown)}</td></tr>"
         )
     has_imperial = any(p.imperial for p in calc.params)
@@ -219,6 +222,8 @@ def render(block: Block, safety_url: str | None) -> str:
 
 
 def render_table(index: int, body: str) -> str:
+    from lampcalc.cautions import UNVERIFIED_NOTE, daggered
+    from lampcalc.present.sheet import keep_numbers
     from lampcalc.present.tables import TABLES
 
     opts = {}
@@ -232,9 +237,19 @@ def render_table(index: int, body: str) -> str:
     if opts:
         raise BlockError(index, next(iter(opts)), "tables take only 'table'")
     t = TABLES[name]()
+    # a limit recalled rather than read against its standard: a dagger in its cell or source, one note below
+    marked: list[bool] = []
+
+    def cell(text: str) -> str:
+        out, unverified = daggered(text)
+        marked.append(unverified)
+        return _esc(keep_numbers(out))
+
     head = "".join(f"<th>{_esc(h)}</th>" for h in t.headers)
-    body_html = "".join("<tr>" + "".join(f"<td>{_esc(c)}</td>" for c in r) + "</tr>" for r in t.rows)
-    src = "".join(f"<li>{_esc(x)}</li>" for x in t.sources)
+    body_html = "".join("<tr>" + "".join(f"<td>{cell(c)}</td>" for c in r) + "</tr>" for r in t.rows)
+    src = "".join(f"<li>{cell(x)}</li>" for x in t.sources)
+    if any(marked):
+        src += f'<li class="lb-unverified">{_esc(UNVERIFIED_NOTE)}</li>'
     return (
         f'<div class="lb-reftable" data-table="{_esc(name)}">'
         f'<p class="lb-tabletitle"><strong>{_esc(t.title)}</strong></p>'

@@ -104,11 +104,7 @@ def answer(desc: Mapping[str, Any], ans: Mapping[str, Any], wide: bool = False) 
     declaration (``lampcalc.schema.describe``); within 80 columns unless ``wide``."""
     width = None if wide else WIDTH
     parts = [desc["title"], "=" * len(desc["title"])]
-    pairs = [
-        (o["label"], ans["display"][o["name"]])
-        for o in desc["outputs"]
-        if ans["values"].get(o["name"]) is not None or ans["display"].get(o["name"], "—") != "—"
-    ]
+    pairs = [(o["label"], ans["display"][o["name"]]) for o in desc["outputs"] if o["name"] in ans["applies"]]
     parts.append(pair_lines(pairs, width))
     cols = [c for c in desc["columns"] if any(r.get(c["name"]) is not None for r in ans["rows"])]
     if ans["rows"] and cols:

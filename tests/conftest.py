@@ -2,5 +2,21 @@ from __future__ import annotations
 
 import os
 import sys
+from collections.abc import Iterator
+
+import pytest
 
 sys.path.insert(0, os.path.dirname(__file__))
+
+from sites import launch
+
+
+@pytest.fixture
+def browser() -> Iterator[object]:
+    """Debian's Chromium with the project's arguments, one per test."""
+    from playwright.sync_api import sync_playwright
+
+    with sync_playwright() as p:
+        b = launch(p)
+        yield b
+        b.close()

@@ -5,14 +5,35 @@ from __future__ import annotations
 import functools
 import http.server
 import os
+import shutil
 import subprocess
 import sys
 import threading
+from collections.abc import Iterator
+from contextlib import contextmanager
 from pathlib import Path
+from typing import Any
 
 ROOT = Path(__file__).resolve().parent.parent
 RUNTIME = ROOT / "node_modules" / "pyodide"
 CACHE = ROOT / ".cache" / "lampbook"
+
+# Debian's Chromium, never a downloaded browser; a fresh headless profile that calls nowhere by itself
+CHROMIUM = "/usr/bin/chromium"
+ARGS = [
+    "--no-sandbox",
+    "--disable-gpu",
+    "--disable-quic",
+    "--no-first-run",
+    "--disable-background-networking",
+    "--disable-component-update",
+    "--disable-sync",
+]
+
+
+def launch(playwright: Any, *extra_args: str) -> Any:
+    """Debian's Chromium with the project's arguments (and EXTRA_ARGS after them)."""
+    return playwright.chromium.launch(executable_path=CHROMIUM, args=[*ARGS, *extra_args])
 
 
 def write_site(folder: Path, pages: dict[str, str], engine: bool = True, extra: str = "") -> Path:
@@ -29,6 +50,41 @@ def write_site(folder: Path, pages: dict[str, str], engine: bool = True, extra: 
         f"      runtime: {RUNTIME}\n"
         f"      cache_dir: {CACHE}\n" + extra,
         encoding="utf-8",
+    )
+    return folder
+
+
+def write_demo(folder: Path, options: str = "") -> Path:
+    """The demo handbook (docs/ and mkdocs.yml) copied into FOLDER, its plugin pointed at the local runtime
+    and cache, with extra plugin OPTIONS (YAML lines) after them."""
+    shutil.copytree(ROOT / "docs", folder / "docs")
+    y = (
+        (ROOT / "mkdocs.yml")
+        .read_text()
+        .replace(
+            "  - lampbook:\n",
+            f"  - lampbook:\n      runtime: {RUNTIME}\n      cache_dir: {CACHE}\n" + options,
+        )
+    )
+    (folder / "mkdocs.yml").write_text(y)
+    return folder
+
+
+def write_scaffold(folder: Path) -> Path:
+    """A handbook made by `lampbook new` in FOLDER, given the Pyodide package and the cache of this repository."""
+    r = subprocess.run(
+        [sys.executable, "-m", "lampbook.cli", "new", str(folder), "--name", "Bench book"],
+        capture_output=True,
+        text=True,
+    )
+    assert r.returncode == 0, r.stderr
+    # what `npm install pyodide@VERSION` would put there: the same package this repository pins
+    (folder / "node_modules").mkdir()
+    (folder / "node_modules" / "pyodide").symlink_to(RUNTIME)
+    y = (folder / "mkdocs.yml").read_text()
+    assert "      designs: designs\n" in y
+    (folder / "mkdocs.yml").write_text(
+        y.replace("      designs: designs\n", f"      designs: designs\n      cache_dir: {CACHE}\n")
     )
     return folder
 
@@ -68,3 +124,15 @@ class Server:
     def close(self) -> None:
         self.httpd.shutdown()
         self.httpd.server_close()
+
+
+@contextmanager
+def built_and_served(folder: Path) -> Iterator[Server]:
+    """Build the site in FOLDER (strict; its errors shown if it fails) and serve FOLDER/site until the end."""
+    r = build(folder)
+    assert r.returncode == 0, r.stderr
+    srv = Server(folder / "site")
+    try:
+        yield srv
+    finally:
+        srv.close()

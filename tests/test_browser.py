@@ -6,55 +6,23 @@ from __future__ import annotations
 
 import json
 import re
-import shutil
 from collections.abc import Iterator
 from pathlib import Path
 
 import pytest
 from lampcalc.api import compute
-from sites import ROOT, Server, build
+from sites import ROOT, Server, build, built_and_served, launch, write_demo, write_scaffold
 
 pytestmark = pytest.mark.browser
 
-CHROMIUM = "/usr/bin/chromium"
-ARGS = [
-    "--no-sandbox",
-    "--disable-gpu",
-    "--disable-quic",
-    "--no-first-run",
-    "--disable-background-networking",
-    "--disable-component-update",
-    "--disable-sync",
-]
 ARTIFACTS = ROOT / "test-artifacts"
 
 
 @pytest.fixture(scope="module")
 def demo(tmp_path_factory: pytest.TempPathFactory) -> Iterator[tuple[Path, Server]]:
-    folder = tmp_path_factory.mktemp("demo")
-    shutil.copytree(ROOT / "docs", folder / "docs")
-    y = (ROOT / "mkdocs.yml").read_text() + "\n"
-    y = y.replace(
-        "  - lampbook:\n",
-        f"  - lampbook:\n      runtime: {ROOT / 'node_modules' / 'pyodide'}\n"
-        f"      cache_dir: {ROOT / '.cache' / 'lampbook'}\n",
-    )
-    (folder / "mkdocs.yml").write_text(y)
-    r = build(folder)
-    assert r.returncode == 0, r.stderr
-    srv = Server(folder / "site")
-    yield folder, srv
-    srv.close()
-
-
-@pytest.fixture
-def browser() -> Iterator[object]:
-    from playwright.sync_api import sync_playwright
-
-    with sync_playwright() as p:
-        b = p.chromium.launch(executable_path=CHROMIUM, args=ARGS)
-        yield b
-        b.close()
+    folder = write_demo(tmp_path_factory.mktemp("demo"))
+    with built_and_served(folder) as srv:
+        yield folder, srv
 
 
 class Visit:
@@ -143,7 +111,7 @@ def block_inputs(v: Visit, box: str) -> dict[str, str]:
             k: val
             for k, val in v.page.evaluate(
                 f"""Object.fromEntries([...document.querySelectorAll('#{box} .lb-form [name]')]
-            .filter(e => !e.closest('.lb-field').hidden && e.value.trim() !== '').map(e => [e.name, e.value]))"""
+            .filter(e => !e.closest('.lb-field').hidden).map(e => [e.name, e.value]))"""
             ).items()
         }
         if data
@@ -179,6 +147,18 @@ def test_error_shows_beside_field(demo: tuple[Path, Server], browser: object) ->
     v.set("lb-dropper-1", "capacitance", "2.2")
     err = v.page.locator("#lb-dropper-1 .lb-field.lb-bad .lb-err").inner_text()
     assert "expected a capacitance" in err
+
+
+def test_blank_field_is_an_error_not_the_default(demo: tuple[Path, Server], browser: object) -> None:
+    # a cleared field with a usual value must not silently compute with that value
+    v = Visit(browser, demo[1].url)
+    v.open("calculators/dropper/")
+    v.ready()
+    v.set("lb-dropper-1", "capacitance", "")
+    err = v.page.locator("#lb-dropper-1 .lb-field.lb-bad .lb-err").inner_text()
+    assert "needs a value" in err
+    assert "lb-stale" in (v.page.locator("#lb-dropper-1").get_attribute("class") or "")
+    assert not v.errors
 
 
 def test_prerendered_answer_without_javascript(demo: tuple[Path, Server], browser: object) -> None:
@@ -225,9 +205,7 @@ def test_rebuilt_site_replaces_the_cache(tmp_path: Path, browser: object) -> Non
     from sites import write_site
 
     write_site(folder, {"index.md": "# One\n\n```lampbook\ncalculator: preferred\n```\n"})
-    assert build(folder).returncode == 0
-    srv = Server(folder / "site")
-    try:
+    with built_and_served(folder) as srv:
         v = Visit(browser, srv.url)
         v.first_visit()
         first = v.page.evaluate("caches.keys()")
@@ -240,8 +218,6 @@ def test_rebuilt_site_replaces_the_cache(tmp_path: Path, browser: object) -> Non
         v.ctx.set_offline(True)
         v.page.reload()
         assert v.page.locator("h1").inner_text() == "Two"
-    finally:
-        srv.close()
 
 
 def test_open_design_from_device(demo: tuple[Path, Server], browser: object) -> None:
@@ -279,33 +255,9 @@ def test_demo_pages_fetch_nothing_foreign(demo: tuple[Path, Server], browser: ob
 
 
 def test_scaffolded_handbook_works_offline(tmp_path: Path, browser: object) -> None:
-    import subprocess
-    import sys
-
-    folder = tmp_path / "mine"
-    r = subprocess.run(
-        [sys.executable, "-m", "lampbook.cli", "new", str(folder), "--name", "Bench book"],
-        capture_output=True,
-        text=True,
-    )
-    assert r.returncode == 0, r.stderr
-    # what `npm install pyodide@VERSION` would put there: the same package this repository pins
-    (folder / "node_modules").mkdir()
-    (folder / "node_modules" / "pyodide").symlink_to(ROOT / "node_modules" / "pyodide")
-    y = (
-        (folder / "mkdocs.yml")
-        .read_text()
-        .replace(
-            "      designs: designs",
-            f"      designs: designs\n      cache_dir: {ROOT / '.cache' / 'lampbook'}",
-        )
-    )
-    (folder / "mkdocs.yml").write_text(y)
-    r = build(folder)
-    assert r.returncode == 0, r.stderr
-    assert (folder / "site" / "designs" / "first-fixture" / "index.html").is_file()
-    srv = Server(folder / "site")
-    try:
+    folder = write_scaffold(tmp_path / "mine")
+    with built_and_served(folder) as srv:
+        assert (folder / "site" / "designs" / "first-fixture" / "index.html").is_file()
         v = Visit(browser, srv.url)
         v.first_visit()
         v.ctx.set_offline(True)
@@ -316,8 +268,6 @@ def test_scaffolded_handbook_works_offline(tmp_path: Path, browser: object) -> N
         v.set(box, "capacitance", "0.47 uF")
         assert v.out(box, "led_current_avg") == compute("dropper", block_inputs(v, box))["display"]["led_current_avg"]
         assert not v.foreign
-    finally:
-        srv.close()
 
 
 def test_offline_search(demo: tuple[Path, Server], browser: object) -> None:
@@ -359,17 +309,44 @@ def test_engine_timeout_is_shown(tmp_path: Path, browser: object) -> None:
         {"index.md": "# T\n\n```lampbook\ncalculator: preferred\n```\n"},
         extra="      load_timeout: 3\n",
     )
-    assert build(folder).returncode == 0
-    srv = Server(folder / "site")
-    try:
+    with built_and_served(folder) as srv:
         v = Visit(browser, srv.url)
         v.ctx.route(re.compile(r".*pyodide[.]asm[.]wasm$"), lambda route: None)  # never answered
         v.open("")
         v.page.wait_for_selector(".lb-engine[data-state^=failed]", timeout=30000)
         assert "application/wasm" in v.page.locator(".lb-engine").first.inner_text()
         assert v.out("lb-preferred-1", "nearest") == compute("preferred", {})["display"]["nearest"]
-    finally:
-        srv.close()
+
+
+# A worker that starts, leaves its first request unanswered (a long computation) and dies on the second
+# (an uncaught error inside it).
+DYING_WORKER = """self.postMessage({ type: "ready" });
+let queries = 0;
+self.onmessage = (e) => {
+  if (e.data && e.data.type === "query" && ++queries === 2) setTimeout(() => { throw new Error("engine crashed"); });
+};
+"""
+
+
+def test_worker_death_refuses_pending_requests(tmp_path: Path, browser: object) -> None:
+    # a request in flight when the engine dies is refused with the reason: the form is marked stale and the
+    # status says why, instead of waiting for an answer that cannot come
+    from sites import write_site
+
+    folder = write_site(tmp_path / "w", {"index.md": "# W\n\n```lampbook\ncalculator: preferred\n```\n"})
+    with built_and_served(folder) as srv:
+        v = Visit(browser, srv.url)
+        v.ctx.route(
+            re.compile(r".*assets/lampbook/worker[.]js$"),
+            lambda route: route.fulfill(status=200, content_type="text/javascript", body=DYING_WORKER),
+        )
+        v.open("")
+        v.ready()
+        v.page.locator("#lb-preferred-1 [name=value]").fill("47k")
+        v.page.wait_for_selector("#lb-preferred-1.lb-stale", timeout=30000)
+        assert "engine stopped" in (v.page.get_attribute("#lb-preferred-1", "data-engine-error") or "")
+        assert "engine crashed" in v.page.locator(".lb-engine").first.inner_text()
+        assert v.page.locator(".lb-engine").first.get_attribute("data-state", timeout=1000).startswith("failed")
 
 
 # --- offline status: "offline-ready" is a claim, made only when it is true ---------------------------------
@@ -401,7 +378,7 @@ def test_offline_status_in_a_plain_http_context(demo: tuple[Path, Server]) -> No
     host = "bench-laptop.test"  # resolved to 127.0.0.1 by the browser only: not a secure origin
     url = demo[1].url.replace("127.0.0.1", host)
     with sync_playwright() as p:
-        b = p.chromium.launch(executable_path=CHROMIUM, args=[*ARGS, f"--host-resolver-rules=MAP {host} 127.0.0.1"])
+        b = launch(p, f"--host-resolver-rules=MAP {host} 127.0.0.1")
         try:
             ctx = b.new_context(service_workers="allow", viewport={"width": 390, "height": 844}, is_mobile=True)
             foreign: list[str] = []

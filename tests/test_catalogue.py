@@ -14,7 +14,7 @@ from pathlib import Path
 
 import pytest
 from lampcalc.design_api import handle
-from sites import ROOT, Server, build, write_site
+from sites import ROOT, Server, built_and_served, launch, write_site
 
 from lampbook.catalogue import check_design, review_sheet, run_all, summary
 from lampbook.fixtureindex import IndexRow, index_markdown
@@ -429,17 +429,6 @@ def test_index_links_every_sheet_and_bad_jobs_refused(tmp_path: Path) -> None:
 
 # --- browser tier: the index on a phone ------------------------------------------------------
 
-CHROMIUM = "/usr/bin/chromium"
-ARGS = [
-    "--no-sandbox",
-    "--disable-gpu",
-    "--disable-quic",
-    "--no-first-run",
-    "--disable-background-networking",
-    "--disable-component-update",
-    "--disable-sync",
-]
-
 
 @pytest.fixture(scope="module")
 def index_site(tmp_path_factory: pytest.TempPathFactory) -> Iterator[tuple[Path, Server]]:
@@ -450,11 +439,8 @@ def index_site(tmp_path_factory: pytest.TempPathFactory) -> Iterator[tuple[Path,
         (site / "docs" / "designs" / f"strip-{k}.toml").write_text(cv_variant(k), encoding="utf-8")
     y = (site / "mkdocs.yml").read_text().replace("      engine: false", "      engine: false\n      designs: designs")
     (site / "mkdocs.yml").write_text(y)
-    r = build(site)
-    assert r.returncode == 0, r.stderr
-    srv = Server(site / "site")
-    yield site / "site", srv
-    srv.close()
+    with built_and_served(site) as srv:
+        yield site / "site", srv
 
 
 @pytest.mark.browser
@@ -464,7 +450,7 @@ def test_index_on_a_phone(index_site: tuple[Path, Server]) -> None:
     site, srv = index_site
     foreign: list[str] = []
     with sync_playwright() as p:
-        b = p.chromium.launch(executable_path=CHROMIUM, args=ARGS)
+        b = launch(p)
         ctx = b.new_context(viewport={"width": 390, "height": 844})
         ctx.route(
             re.compile(r"^(?!http://127\.0\.0\.1:|file://).*"),  # the site's server and its own files only

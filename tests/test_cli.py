@@ -29,6 +29,15 @@ def test_every_calculator_prints_a_table_and_json(name: str) -> None:
     assert data["ok"] and data["calculator"] == name
 
 
+def test_rows_of_the_mode_only_and_does_not_apply_said() -> None:
+    r = lampbook("dropper")
+    assert r.returncode == 0, r.stderr
+    assert "does not apply" in r.stdout  # no target given: the capacitance for a target does not apply
+    cv = lampbook("string", "--supply", "cv")
+    assert cv.returncode == 0, cv.stderr
+    assert "Ballast" in cv.stdout and "Dropper capacitance" not in cv.stdout
+
+
 def test_dropper_answer_X12_and_cautions() -> None:
     # 120 V 60 Hz, 2.2 uF, 90 V string: 42.08 mA (references.md X12, arithmetic)
     r = lampbook(

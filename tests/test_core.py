@@ -131,6 +131,46 @@ def test_wire_smallest_size_meets_limit() -> None:
     assert float(r3.values["drop_fraction"]) > 0.03  # type: ignore[arg-type]
 
 
+def test_recalled_limits_marked_once_with_a_dagger() -> None:
+    # A value recalled rather than read against its standard (the IEC 60335-1 cord table and the IEEE 1789
+    # band are marked so in the core's data) reaches the reader as a dagger and one explanatory note.
+    from lampcalc.cautions import UNVERIFIED_NOTE
+
+    marked = 0
+    for name in CALCULATORS:
+        ans = compute(name, {"ampacity_table": "iec-cord"} if name == "wire" else {})
+        shown = [*ans["display"].values(), *ans["notes"], *ans["warnings"]]
+        assert not [t for t in shown if "from memory" in str(t)], name
+        daggers = sum(str(t).count("†") for t in shown if t != UNVERIFIED_NOTE)
+        assert ans["notes"].count(UNVERIFIED_NOTE) == (1 if daggers else 0), name
+        marked += daggers > 0
+    assert marked >= 3  # wire (cord table), ripple and camera (flicker band)
+    assert "†" in compute("wire", {"ampacity_table": "iec-cord"})["display"]["ampacity_table"]
+
+
+def test_a_row_that_does_not_apply_says_so() -> None:
+    # An output of the answer's own mode with no value reads "does not apply" instead of vanishing; an output
+    # of another mode is not part of the answer (issue of consistency, no outside reference needed: the rule is
+    # about what is shown, and each case is checked against the value the calculator returns).
+    dropper = compute("dropper", {})
+    assert "capacitance_needed" in dropper["applies"] and dropper["values"]["capacitance_needed"] is None
+    assert dropper["display"]["capacitance_needed"] == "does not apply: no target current given"
+    cv = compute("string", {"supply": "cv"})
+    assert "ballast" in cv["applies"] and cv["values"]["ballast"] is not None
+    assert "capacitance" not in cv["applies"] and "voltage_cold" not in cv["applies"]
+    feed = compute("string", {"supply": "dropper", "current": "30 mA"})
+    assert "capacitance" in feed["applies"] and feed["values"]["capacitance"] is not None
+    assert "ballast" not in feed["applies"]
+    for name in CALCULATORS:
+        calc = CALCULATORS[name]
+        for mode in calc.param(calc.mode).choices if calc.mode else (None,):
+            ans = compute(name, {calc.mode: mode} if mode else {})
+            # every output a mode leaves without a value belongs to another mode, or says it does not apply
+            for o in calc.outputs:
+                if ans["values"][o.name] is None and o.name in ans["applies"]:
+                    assert ans["display"][o.name] not in ("", "—"), (name, mode, o.name)
+
+
 def test_api_handle_json_round_trip() -> None:
     import json
 

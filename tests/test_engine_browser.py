@@ -12,8 +12,7 @@ from collections.abc import Iterator
 from pathlib import Path
 
 import pytest
-from sites import _Quiet, build, write_site
-from test_browser import ARGS, CHROMIUM
+from sites import _Quiet, build, launch, write_site
 
 pytestmark = pytest.mark.browser
 
@@ -55,7 +54,7 @@ def test_first_visit_sends_each_file_once(served: CountingServer) -> None:
     from playwright.sync_api import sync_playwright
 
     with sync_playwright() as p:
-        b = p.chromium.launch(executable_path=CHROMIUM, args=ARGS)
+        b = launch(p)
         try:
             ctx = b.new_context(service_workers="allow")
             page = ctx.new_page()

@@ -9,15 +9,14 @@ times are printed (run with -s), not asserted: speed is measured by bench/, not 
 from __future__ import annotations
 
 import os
-import shutil
 import time
 from collections.abc import Iterator
 from pathlib import Path
 
 import pytest
 from lampcalc.api import compute
-from sites import ROOT, Server, build
-from test_browser import ARGS, CHROMIUM, Visit, block_inputs
+from sites import Server, build, write_demo
+from test_browser import Visit, block_inputs
 
 pytestmark = pytest.mark.browser
 
@@ -42,18 +41,7 @@ def served() -> Iterator[tuple[Path, Server]]:
     import tempfile
 
     with tempfile.TemporaryDirectory() as tmp:
-        folder = Path(tmp)
-        shutil.copytree(ROOT / "docs", folder / "docs")
-        y = (
-            (ROOT / "mkdocs.yml")
-            .read_text()
-            .replace(
-                "  - lampbook:\n",
-                f"  - lampbook:\n      runtime: {ROOT / 'node_modules' / 'pyodide'}\n"
-                f"      cache_dir: {ROOT / '.cache' / 'lampbook'}\n",
-            )
-        )
-        (folder / "mkdocs.yml").write_text(y)
+        folder = write_demo(Path(tmp))
         srv = Server(folder / "site")  # listening first: its port goes into the build
         old = os.environ.get("LAMPBOOK_SITE_URL")
         os.environ["LAMPBOOK_SITE_URL"] = srv.url
@@ -68,16 +56,6 @@ def served() -> Iterator[tuple[Path, Server]]:
         assert srv.url in (folder / "site" / "sitemap.xml").read_text()
         yield folder / "site", srv
         srv.close()
-
-
-@pytest.fixture
-def browser() -> Iterator[object]:
-    from playwright.sync_api import sync_playwright
-
-    with sync_playwright() as p:
-        b = p.chromium.launch(executable_path=CHROMIUM, args=ARGS)
-        yield b
-        b.close()
 
 
 MARK = """url => {

@@ -8,15 +8,12 @@ lines in its tables and lists. A full-page screenshot of every page is kept in t
 
 from __future__ import annotations
 
-import shutil
-import subprocess
-import sys
 from collections.abc import Iterator
 from pathlib import Path
 
 import pytest
-from sites import ROOT, Server, build
-from test_browser import ARGS, CHROMIUM, Visit
+from sites import ROOT, Server, built_and_served, write_demo, write_scaffold
+from test_browser import Visit
 
 pytestmark = pytest.mark.browser
 
@@ -172,58 +169,16 @@ def check_page(v: Visit, path: str, shot: str) -> list[str]:
 
 @pytest.fixture(scope="module")
 def demo_site(tmp_path_factory: pytest.TempPathFactory) -> Iterator[tuple[Path, Server]]:
-    folder = tmp_path_factory.mktemp("demo")
-    shutil.copytree(ROOT / "docs", folder / "docs")
-    y = (
-        (ROOT / "mkdocs.yml")
-        .read_text()
-        .replace(
-            "  - lampbook:\n",
-            f"  - lampbook:\n      runtime: {ROOT / 'node_modules' / 'pyodide'}\n"
-            f"      cache_dir: {ROOT / '.cache' / 'lampbook'}\n",
-        )
-    )
-    (folder / "mkdocs.yml").write_text(y)
-    r = build(folder)
-    assert r.returncode == 0, r.stderr
-    srv = Server(folder / "site")
-    yield folder / "site", srv
-    srv.close()
+    folder = write_demo(tmp_path_factory.mktemp("demo"))
+    with built_and_served(folder) as srv:
+        yield folder / "site", srv
 
 
 @pytest.fixture(scope="module")
 def scaffold_site(tmp_path_factory: pytest.TempPathFactory) -> Iterator[tuple[Path, Server]]:
-    folder = tmp_path_factory.mktemp("mine") / "book"
-    r = subprocess.run(
-        [sys.executable, "-m", "lampbook.cli", "new", str(folder), "--name", "Bench book"],
-        capture_output=True,
-        text=True,
-    )
-    assert r.returncode == 0, r.stderr
-    (folder / "node_modules").mkdir()
-    (folder / "node_modules" / "pyodide").symlink_to(ROOT / "node_modules" / "pyodide")
-    y = (folder / "mkdocs.yml").read_text()
-    assert "      designs: designs\n" in y
-    (folder / "mkdocs.yml").write_text(
-        y.replace(
-            "      designs: designs\n", f"      designs: designs\n      cache_dir: {ROOT / '.cache' / 'lampbook'}\n"
-        )
-    )
-    r = build(folder)
-    assert r.returncode == 0, r.stderr
-    srv = Server(folder / "site")
-    yield folder / "site", srv
-    srv.close()
-
-
-@pytest.fixture
-def phone() -> Iterator[object]:
-    from playwright.sync_api import sync_playwright
-
-    with sync_playwright() as p:
-        b = p.chromium.launch(executable_path=CHROMIUM, args=ARGS)
-        yield b
-        b.close()
+    folder = write_scaffold(tmp_path_factory.mktemp("mine") / "book")
+    with built_and_served(folder) as srv:
+        yield folder / "site", srv
 
 
 def run_tier(browser: object, site: tuple[Path, Server], prefix: str) -> None:
@@ -237,17 +192,17 @@ def run_tier(browser: object, site: tuple[Path, Server], prefix: str) -> None:
     assert not v.foreign and not v.errors, (v.foreign[:3], v.errors[:3])
 
 
-def test_every_demo_page_on_a_phone(demo_site: tuple[Path, Server], phone: object) -> None:
-    run_tier(phone, demo_site, "demo")
+def test_every_demo_page_on_a_phone(demo_site: tuple[Path, Server], browser: object) -> None:
+    run_tier(browser, demo_site, "demo")
 
 
-def test_every_scaffold_page_on_a_phone(scaffold_site: tuple[Path, Server], phone: object) -> None:
-    run_tier(phone, scaffold_site, "scaffold")
+def test_every_scaffold_page_on_a_phone(scaffold_site: tuple[Path, Server], browser: object) -> None:
+    run_tier(browser, scaffold_site, "scaffold")
 
 
-def test_the_checks_find_what_they_look_for(demo_site: tuple[Path, Server], phone: object) -> None:
+def test_the_checks_find_what_they_look_for(demo_site: tuple[Path, Server], browser: object) -> None:
     """The phone checks are not blind: a page spoiled on purpose fails each of them."""
-    v = Visit(phone, demo_site[1].url, service_workers="block", **PHONE)
+    v = Visit(browser, demo_site[1].url, service_workers="block", **PHONE)
     v.open("calculators/strings/")
     v.ready()
     v.computed("lb-string-1", 0)

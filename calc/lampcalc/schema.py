@@ -11,9 +11,10 @@ from __future__ import annotations
 
 import math
 from collections.abc import Callable, Mapping
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 from . import cautions
+from .cautions import UNVERIFIED_NOTE, daggered
 from .errors import InputError, InputErrors
 from .quantities.regions import PRESETS
 from .quantities.units import dimension, format_value, parse
@@ -46,6 +47,11 @@ class Output:
     label: str
     dim: str  # a units dimension, or "text"
     help: str = ""
+    #: the modes whose answer includes this output (empty: every mode); in another mode it is not shown at all,
+    #: while in its own mode an output with no value reads "does not apply"
+    modes: tuple[str, ...] = ()
+    #: why the output has no value when it has none (shown after "does not apply: ")
+    absent: str = ""
 
 
 @dataclass(frozen=True)
@@ -59,6 +65,7 @@ class Result:
     # not apply says why rather than vanishing)
     display: Mapping[str, str] | None = None
     dims: Mapping[str, str] | None = None  # an output's dimension when it follows the input's
+    mode: str | None = None  # the value of the calculator's mode input this answer was computed in
 
 
 @dataclass(frozen=True)
@@ -180,7 +187,11 @@ def _blank_expected(p: Param) -> str:
 
 
 def evaluate(calc: Calculator, raw: Mapping[str, object]) -> Result:
-    return calc.compute(parse_inputs(calc, raw))
+    inputs = parse_inputs(calc, raw)
+    result = calc.compute(inputs)
+    if calc.mode and result.mode is None:
+        result = replace(result, mode=str(inputs.get(calc.mode)))
+    return result
 
 
 def format_output(o: Output, v: Value, digits: int | None = 4) -> str:
@@ -214,13 +225,29 @@ def to_json(calc: Calculator, result: Result) -> dict[str, object]:
     def display(o: Output, v: Value) -> str:
         if o.name in shown:
             return shown[o.name]
+        if v is None:
+            return f"does not apply: {o.absent}" if o.absent else "does not apply"
         return format_output(Output(o.name, o.label, dims.get(o.name, o.dim)), v)
 
+    # a limit recalled rather than read against its standard: a dagger where it is used, one note saying so
+    unverified = False
+
+    def mark(text: str) -> str:
+        nonlocal unverified
+        out, u = daggered(text)
+        unverified |= u
+        return out
+
+    shown_all = {o.name: mark(display(o, result.values.get(o.name))) for o in calc.outputs}
+    notes = [mark(n) for n in notes]
+    warnings = [mark(w) for w in result.warnings]
+    if unverified:
+        notes.append(UNVERIFIED_NOTE)
     return {
         "calculator": calc.name,
         "ok": True,
         "values": {o.name: clean(result.values.get(o.name)) for o in calc.outputs},
-        "display": {o.name: display(o, result.values.get(o.name)) for o in calc.outputs},
+        "display": shown_all,
         "rows": [{c.name: clean(r.get(c.name)) for c in calc.columns} for r in result.rows],
         "rows_display": [
             {
@@ -229,8 +256,11 @@ def to_json(calc: Calculator, result: Result) -> dict[str, object]:
             }
             for r in result.rows
         ],
+        # the outputs this answer includes: those of its mode (an output with no value among them reads
+        # "does not apply"); the others belong to another mode and are not shown
+        "applies": [o.name for o in calc.outputs if not o.modes or result.mode in o.modes],
         "notes": notes,
-        "warnings": list(result.warnings),
+        "warnings": warnings,
         "cautions": list(calc.cautions if result.cautions is None else result.cautions),
     }
 
@@ -262,7 +292,10 @@ def describe(calc: Calculator) -> dict[str, object]:
             }
             for p in calc.params
         ],
-        "outputs": [{"name": o.name, "label": o.label, "dim": o.dim, "help": o.help} for o in calc.outputs],
+        "outputs": [
+            {"name": o.name, "label": o.label, "dim": o.dim, "help": o.help, "modes": list(o.modes)}
+            for o in calc.outputs
+        ],
         "columns": [{"name": o.name, "label": o.label, "dim": o.dim} for o in calc.columns],
         "plots": list(calc.plots),
         "main": list(calc.main),

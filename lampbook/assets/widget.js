@@ -62,33 +62,49 @@ function startEngine() {
       for (const f of document.querySelectorAll(".lb-calc[data-live]")) run(f);
     } else if (m.type === "failed") {
       clearTimeout(timer);
-      engineState = "failed";
-      failReason = String(m.error).slice(0, 120);
-      setStatus();
+      engineStopped(String(m.error));
       startOffline();
       console.error("lampbook engine:", m.error);
     } else if (m.type === "stored") {
       startOffline(); // the engine has handed its downloads over: the offline cache takes them as they are
     } else if (m.type === "result") {
-      const cb = pending.get(m.id);
+      const p = pending.get(m.id);
       pending.delete(m.id);
-      if (cb) cb(m.answer);
+      if (p) p.resolve(m.answer);
     }
   };
   worker.onerror = (e) => {
-    engineState = "failed";
-    setStatus();
+    clearTimeout(timer);
+    engineStopped(e.message || "the engine stopped");
     console.error("lampbook engine:", e.message);
   };
   if (early) for (const e of early.queue.splice(0)) (e.type === "error" ? worker.onerror : worker.onmessage)(e);
 }
 
+// The engine has stopped (failed to start, or died with requests in flight): every pending request is
+// refused with the reason, so no form waits for an answer that cannot come; the forms say their answers are stale.
+function engineStopped(reason) {
+  engineState = "failed";
+  failReason = String(reason).slice(0, 120);
+  setStatus();
+  const waiting = [...pending.values()];
+  pending.clear();
+  for (const p of waiting) p.reject(new Error(`engine stopped: ${failReason}`));
+}
+
 function query(request) {
-  return new Promise((resolve) => {
+  if (!worker || engineState === "failed") return Promise.reject(new Error(`engine unavailable: ${failReason}`));
+  return new Promise((resolve, reject) => {
     const id = ++seq;
-    pending.set(id, resolve);
+    pending.set(id, { resolve, reject });
     worker.postMessage({ type: "query", id, request });
   });
+}
+
+// a form whose request the engine could not answer keeps its last answer, marked stale
+function markStale(box, error) {
+  box.classList.add("lb-stale");
+  box.dataset.engineError = String(error && error.message ? error.message : error);
 }
 
 // the declaration sits in a template, out of reach of the theme's script re-creation on page changes
@@ -103,7 +119,9 @@ function inputsOf(box) {
   for (const el of box.querySelectorAll(".lb-form [name]")) {
     const field = el.closest(".lb-field");
     if (field && field.hidden) continue;
-    if (el.value.trim() !== "") out[el.name] = el.value;
+    // a blank goes to the engine as a blank: a field with a usual value is then an error, never that value
+    // silently; an optional one stays unset
+    out[el.name] = el.value;
   }
   return out;
 }
@@ -180,7 +198,10 @@ function render(box, decl, ans) {
         const fold = f.closest(".lb-more");
         if (fold) fold.open = true;
         f.classList.add("lb-bad");
-        f.querySelector(".lb-err").textContent = e.expected ? `expected ${e.expected}` : e.message;
+        const blank = input.value.trim() === "" && input.dataset.default;
+        f.querySelector(".lb-err").textContent = blank
+          ? `needs a value: a blank is not read as ${input.dataset.default}`
+          : e.expected ? `expected ${e.expected}` : e.message;
       } else loose.push(e.message);
     }
     warn.innerHTML = loose.map((m) => `<li>${esc(m)}</li>`).join("");
@@ -190,13 +211,14 @@ function render(box, decl, ans) {
   box.classList.remove("lb-stale");
   for (const tr of box.querySelectorAll("tr[data-out]")) {
     const k = tr.dataset.out;
-    tr.hidden = ans.values[k] === null || ans.values[k] === undefined;
+    tr.hidden = !ans.applies.includes(k); // another mode's output; one of this mode with no value says so
+    tr.classList.toggle("lb-na", ans.values[k] === null || ans.values[k] === undefined);
     tr.querySelector("td").textContent = shown(box, decl, ans, k);
     if (tr.classList.contains("lb-text")) keepNumbers(tr);
   }
   for (const item of box.querySelectorAll(".lb-pin-item")) {
     const k = item.dataset.pin;
-    item.hidden = ans.values[k] === null || ans.values[k] === undefined;
+    item.hidden = !ans.applies.includes(k);
     item.querySelector(".lb-pin-value").textContent = shown(box, decl, ans, k);
   }
   warn.innerHTML = ans.warnings.map((m) => `<li>${esc(m)}</li>`).join("");
@@ -313,12 +335,18 @@ async function run(box) {
   const decl = dataOf(box).declaration;
   showModes(box, decl);
   foldSummary(box);
-  const ans = await query({ kind: "compute", calculator: decl.name, inputs: inputsOf(box) });
+  let ans;
+  try {
+    ans = await query({ kind: "compute", calculator: decl.name, inputs: inputsOf(box) });
+  } catch (e) {
+    markStale(box, e);
+    return;
+  }
   render(box, decl, ans);
   box.querySelector(".lb-link").setAttribute("href", linkFor(box));
   box.dataset.computed = String(Number(box.dataset.computed || 0) + 1);
   if (!performance.getEntriesByName("lb-first-live").length) performance.mark("lb-first-live");
-  if (decl.plots.length) plot(box, decl, ans);
+  if (decl.plots.length) plot(box, decl, ans).catch(() => { box.querySelector(".lb-plot").innerHTML = ""; });
 }
 
 // --- a design file opened from the device: read here, solved in the worker, never uploaded ---------
@@ -341,7 +369,14 @@ function initOpen() {
         wait();
       });
       if (engineState !== "ready") { out.innerHTML = ""; errs.innerHTML = "<li>the engine could not start in this browser</li>"; return; }
-      const ans = await query({ kind: "sheet", toml: text });
+      let ans;
+      try {
+        ans = await query({ kind: "sheet", toml: text });
+      } catch (e) {
+        out.innerHTML = "";
+        errs.innerHTML = `<li>${esc(e.message)}</li>`;
+        return;
+      }
       if (!ans.ok) {
         out.innerHTML = "";
         errs.innerHTML = ans.errors.map((e) => `<li>${esc(e.message)}</li>`).join("");

@@ -645,17 +645,29 @@ def _nodes(segs: list[tuple[float, float, Mode, Vec]], half: float, n: int) -> l
     and short pieces (sharp current spikes) still get their own nodes."""
     out: list[tuple[int, float, float]] = []
     for k, (t0, t1, mode, _) in enumerate(segs):
-        dt = t1 - t0
-        if dt <= 0:
+        if t1 - t0 <= 0:
             continue
-        # enough nodes for the time base and for the fastest transient of the piece
-        stiff = min(dt * abs(mode.l2), 400.0)
-        m = max(2, 2 * math.ceil(max(n * dt / half, stiff) / 2))
-        h = dt / m
-        for j in range(m + 1):
-            w = 1.0 if j in (0, m) else (4.0 if j % 2 else 2.0)
-            out.append((k, t0 + j * h, w * h / 3 / half))
+        # A decaying fast mode is resolved where it lives: the first SETTLE time constants of the piece get
+        # nodes a third of a time constant apart; after them its part is below e^-SETTLE (2e-9) of where it
+        # started and the rest of the piece is smooth, sampled for the time base alone.
+        fast = -mode.l2 if mode.l2 < 0 else 0.0
+        if fast * (t1 - t0) > 2 * SETTLE:
+            tc = t0 + SETTLE / fast
+            pieces = [(t0, tc, 3 * SETTLE), (tc, t1, 0.0)]
+        else:
+            pieces = [(t0, t1, min(fast * (t1 - t0), 400.0))]
+        for a, b, stiff in pieces:
+            dt = b - a
+            m = max(2, 2 * math.ceil(max(n * dt / half, stiff) / 2))
+            h = dt / m
+            for j in range(m + 1):
+                w = 1.0 if j in (0, m) else (4.0 if j % 2 else 2.0)
+                out.append((k, a + j * h, w * h / 3 / half))
     return out
+
+
+#: time constants of a piece's fast mode given dense nodes (see :func:`_nodes`)
+SETTLE = 20.0
 
 
 def _measure(sol: Solver, segs: list[tuple[float, float, Mode, Vec]], n: int, nw: int) -> SteadyState:

@@ -58,7 +58,9 @@ def _matmul(a: Mat6, b: Mat6) -> Mat6:
 
 
 def _matvec(a: Mat6, x: Vec6) -> Vec6:
-    return [sum(r[k] * x[k] for k in range(len(x))) for r in a]
+    # written out for the six states: this product is the inner loop of every run
+    x0, x1, x2, x3, x4, x5 = x
+    return [r[0] * x0 + r[1] * x1 + r[2] * x2 + r[3] * x3 + r[4] * x4 + r[5] * x5 for r in a]
 
 
 def expm(m: Mat6, h: float) -> Mat6:

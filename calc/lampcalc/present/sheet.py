@@ -11,6 +11,7 @@ import math
 import re
 from typing import Any
 
+from ..cautions import UNVERIFIED_NOTE, citation, daggered
 from ..fixture.design import Design
 from ..fixture.rules import RULES
 from ..physics import wire as wr
@@ -608,34 +609,12 @@ def histogram(study: dict[str, Any]) -> str:
 
 # --- checks as a list: status and id on one line, the finding, why and source on demand -----------
 
-_UNVERIFIED = re.compile(r"\s*\(([^()]*\bfrom memory\b[^()]*)\)|[,;]?\s*\bfrom memory\b", re.I)
-
-
-def citation(source: str) -> tuple[str, bool]:
-    """A source as a reader's citation, and whether its limit is still unverified against the published text
-    (marked once on the sheet, not repeated in every line)."""
-    unverified = bool(_UNVERIFIED.search(source))
-
-    def keep(m: re.Match[str]) -> str:
-        parts = re.split(r"[;:]", m.group(1) or "")
-        rest = [x.strip() for x in parts if x.strip() and "memory" not in x and "check against" not in x]
-        return f" ({'; '.join(rest)})" if rest else ""
-
-    return _UNVERIFIED.sub(keep, source).strip(" ,;"), unverified
-
-
 _NUMBER_UNIT = re.compile(r"(\d) (?=(?:[pnµumkMG]?(?:VA|V|A|W|Ω|F|Hz|s|J|h)|%|°C|°F|mm²|AWG)(?![\w]))")
 
 
 def keep_numbers(text: str) -> str:
     """A number and its unit are joined by a no-break space, so a narrow line never splits them."""
     return _NUMBER_UNIT.sub("\\1\u00a0", text)
-
-
-UNVERIFIED_NOTE = (
-    "† The limit in this check was recalled, not yet read against the published standard: "
-    "check it there before relying on it; local codes and licensed practice decide."
-)
 
 
 def checks_list(checks: list[dict[str, Any]]) -> str:
@@ -651,7 +630,7 @@ def checks_list(checks: list[dict[str, Any]]) -> str:
             + (f"<br>Would pass: {_e(keep_numbers(str(c['would_pass'])))}" if c.get("would_pass") else "")
             + "</p>"
             f"<details><summary>Why and source</summary><p>{_e(keep_numbers(str(c['why'])))}</p>"
-            f'<p class="lb-cite">Source: {_e(src)}{"†" if unverified else ""}</p></details></li>'
+            f'<p class="lb-cite">Source: {_e(keep_numbers(src))}{"†" if unverified else ""}</p></details></li>'
         )
     note = f'<p class="lb-unverified">{_e(UNVERIFIED_NOTE)}</p>' if any_unverified else ""
     return '<ul class="lb-checklist">' + "".join(items) + "</ul>" + note
@@ -884,7 +863,10 @@ def mains_quality_section(d: Design, ans: dict[str, Any]) -> str:
         "copies; check against the standard. The review's check judges every corner and step.</p>"
     )
     if notes:
-        out.append("<ul>" + "".join(f"<li>{_e(x)}</li>" for x in notes) + "</ul>")
+        marked = [daggered(x) for x in notes]
+        out.append("<ul>" + "".join(f"<li>{_e(x)}</li>" for x, _ in marked) + "</ul>")
+        if any(u for _, u in marked):
+            out.append(f'<p class="lb-unverified">{_e(UNVERIFIED_NOTE)}</p>')
     g = ans.get("generator")
     if g:
         out.append(
