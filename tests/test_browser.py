@@ -140,23 +140,21 @@ def test_calculator_computes_after_input_change(
     assert not v.foreign and not v.errors
 
 
-def test_error_shows_beside_field(demo: tuple[Path, Server], browser: object) -> None:
+@pytest.mark.parametrize(
+    ("value", "needle"),
+    [
+        ("2.2", "expected a capacitance"),  # a bare number where a unit decides
+        ("", "needs a value"),  # a cleared field with a usual value must not silently compute with that value
+    ],
+    ids=["no-unit", "blank"],
+)
+def test_error_shows_beside_field(demo: tuple[Path, Server], browser: object, value: str, needle: str) -> None:
     v = Visit(browser, demo[1].url)
     v.open("calculators/dropper/")
     v.ready()
-    v.set("lb-dropper-1", "capacitance", "2.2")
+    v.set("lb-dropper-1", "capacitance", value)
     err = v.page.locator("#lb-dropper-1 .lb-field.lb-bad .lb-err").inner_text()
-    assert "expected a capacitance" in err
-
-
-def test_blank_field_is_an_error_not_the_default(demo: tuple[Path, Server], browser: object) -> None:
-    # a cleared field with a usual value must not silently compute with that value
-    v = Visit(browser, demo[1].url)
-    v.open("calculators/dropper/")
-    v.ready()
-    v.set("lb-dropper-1", "capacitance", "")
-    err = v.page.locator("#lb-dropper-1 .lb-field.lb-bad .lb-err").inner_text()
-    assert "needs a value" in err
+    assert needle in err
     assert "lb-stale" in (v.page.locator("#lb-dropper-1").get_attribute("class") or "")
     assert not v.errors
 
