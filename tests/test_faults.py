@@ -62,6 +62,63 @@ def test_string_open_cascades_in_a_parallel_dropper_array() -> None:
     assert f["operating_point"]["string_current_avg_A"] > 1.5 * nominal
 
 
+# --- faults.single: a single fault's hazard is a verdict, not a footnote ----------------------------
+# Rule: under one fault no fire, no burst, no live part (IEC 60598-1 cl. 12.5 abnormal conditions and
+# IEC 61347-1 cl. 14 fault conditions, from memory of their structure); LEDs overdriven until they fail open
+# along a chain that ends dark is a warning (common practice).
+
+
+def _faults_single(ans: dict[str, object]) -> dict[str, object]:
+    return next(c for c in ans["checks"] if c["id"] == "faults.single")  # type: ignore[attr-defined, index]
+
+
+def test_a_hazard_with_fire_as_its_consequence_fails() -> None:
+    # rev C of the panel: one string open puts 0.32 W into the other string's 0.25 W ballast
+    text = (DEMO / "panel-230.toml").read_text()
+    old = parse_design(text.replace('ballast_rating = "0.5 W"', 'ballast_rating = "0.25 W"'))
+    c = _faults_single(check(old))
+    assert c["status"] == "fail" and "string.open" in c["message"] and "ballast.power" in c["message"]
+    assert c["would_pass"]
+
+
+def test_leds_overdriven_along_a_chain_that_ends_dark_warns() -> None:
+    ans = check(design("panel-230"))
+    c = _faults_single(ans)
+    assert c["status"] == "warn" and "string.open" in c["message"] and "array.open" in c["message"]
+    assert next(f for f in ans["faults"] if f["id"] == "array.open")["outcome"] == "safe"
+    assert ans["failed"] == 0
+
+
+def test_unsafe_demo_fails_on_its_faults() -> None:
+    c = _faults_single(check(design("unsafe-demo")))
+    assert c["status"] == "fail" and "smoothing.open_load" in c["message"]
+
+
+def _fault(fid: str, outcome: str, over: list[tuple[str, str]], leads: list[str]) -> dict[str, object]:
+    return {
+        "id": fid,
+        "outcome": outcome,
+        "over_rating": [{"check": c, "consequence": q} for c, q in over],
+        "leads_to": leads,
+    }
+
+
+def test_faults_single_judges_the_whole_chain() -> None:
+    from lampcalc.fixture.check import faults_check
+
+    led = [("led.current", "string fails open")]
+    safe_end = _fault("array.open", "safe", [], [])
+    assert faults_check([safe_end]).status == "pass"
+    assert faults_check([_fault("string.open", "hazard", led, ["array.open"]), safe_end]).status == "warn"
+    # the same cascade, but open load bursts the bus capacitor: the chain ends in a hazard, so it fails
+    burst_end = _fault("array.open", "hazard", [("smoothing.open_load", "burst")], [])
+    assert faults_check([_fault("string.open", "hazard", led, ["array.open"]), burst_end]).status == "fail"
+    # a chain to a fault the analysis did not reach is not assumed safe
+    assert faults_check([_fault("string.open", "hazard", led, ["array.open"])]).status == "fail"
+    # a hazard judged for a reason of its own (no rating named) fails
+    assert faults_check([_fault("bleeder.open", "hazard", [], [])]).status == "fail"
+
+
 def test_unsafe_demo_dropper_short_bursts_before_the_fuse() -> None:
     ans = check(parse_design((DEMO / "unsafe-demo.toml").read_text()))
     f = next(f for f in ans["faults"] if f["id"] == "dropper.short")
