@@ -117,6 +117,10 @@ def test_faults_single_judges_the_whole_chain() -> None:
     assert faults_check([_fault("string.open", "hazard", led, ["array.open"])]).status == "fail"
     # a hazard judged for a reason of its own (no rating named) fails
     assert faults_check([_fault("bleeder.open", "hazard", [], [])]).status == "fail"
+    # LEDs overdriven with no chain named: the string fails open next, so that fault's outcome decides
+    dried = _fault("smoothing.open", "hazard", led, [])
+    assert faults_check([dried, safe_end]).status == "warn"  # one string: open load, which ends safe
+    assert faults_check([dried, _fault("string.open", "hazard", led, ["array.open"]), burst_end]).status == "fail"
 
 
 def test_unsafe_demo_dropper_short_bursts_before_the_fuse() -> None:
