@@ -36,6 +36,8 @@ def render_workbench(index: int, body: str) -> str:
         '<div class="lb-bench" data-block="' + str(index) + '">'
         '<div class="lb-head"><p class="lb-title"><strong>Design workbench</strong></p>'
         '<span class="lb-engine" role="status">answers computed at build time</span></div>'
-        f'<script type="application/json" class="lb-bench-data">{data}</script>'
+        # inside a template: the theme's page changes re-create every script in the content as plain JavaScript
+        f'<template class="lb-bench-tpl"><script type="application/json" class="lb-bench-data">{data}</script>'
+        "</template>"
         '<div class="lb-bench-app"></div>' + NOSCRIPT + "</div>"
     )

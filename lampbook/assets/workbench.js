@@ -20,7 +20,9 @@ const TITLES = {
  */
 export async function initWorkbench(box, engine) {
   const app = box.querySelector(".lb-bench-app");
-  const data = JSON.parse(box.querySelector(".lb-bench-data").textContent);
+  // the data sits in a template, out of reach of the theme's script re-creation on page changes
+  const tpl = box.querySelector("template.lb-bench-tpl");
+  const data = JSON.parse((tpl ? tpl.content : box).querySelector(".lb-bench-data").textContent);
   app.innerHTML = `
     <div class="lb-bench-start">
       <label>Start from <select class="lb-bench-from">
