@@ -7,37 +7,21 @@ from __future__ import annotations
 
 import json
 import re
-import shutil
 from collections.abc import Iterator
 from pathlib import Path
 
 import pytest
 from lampcalc.api import handle
-from sites import ROOT, Server, build
+from sites import ROOT, Server, build, launch, write_demo
 
 pytestmark = pytest.mark.browser
 
-CHROMIUM = "/usr/bin/chromium"
-ARGS = [
-    "--no-sandbox",
-    "--disable-gpu",
-    "--disable-quic",
-    "--no-first-run",
-    "--disable-background-networking",
-    "--disable-component-update",
-    "--disable-sync",
-]
 PHONE = {"viewport": {"width": 390, "height": 844}, "is_mobile": True, "has_touch": True}
 
 
 @pytest.fixture(scope="module")
 def site(tmp_path_factory: pytest.TempPathFactory) -> Iterator[Server]:
-    folder = tmp_path_factory.mktemp("bench")
-    shutil.copytree(ROOT / "docs", folder / "docs")
-    y = (ROOT / "mkdocs.yml").read_text()
-    local = f"      runtime: {ROOT / 'node_modules' / 'pyodide'}\n      cache_dir: {ROOT / '.cache' / 'lampbook'}\n"
-    y = y.replace("  - lampbook:\n", "  - lampbook:\n" + local)
-    (folder / "mkdocs.yml").write_text(y)
+    folder = write_demo(tmp_path_factory.mktemp("bench"))
     r = build(folder)
     assert r.returncode == 0, r.stderr
     srv = Server(folder / "site")
@@ -50,7 +34,7 @@ def page(site: Server) -> Iterator[object]:
     from playwright.sync_api import sync_playwright
 
     with sync_playwright() as p:
-        b = p.chromium.launch(executable_path=CHROMIUM, args=ARGS)
+        b = launch(p)
         ctx = b.new_context(service_workers="allow", accept_downloads=True, **PHONE)
         foreign: list[str] = []
         ctx.route(
