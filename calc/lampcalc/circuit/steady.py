@@ -22,9 +22,13 @@ half-period passes whatever the time constants.
 
 from __future__ import annotations
 
+import bisect
 import math
-from collections.abc import Sequence
+import operator
+from collections.abc import Callable, Iterator, Sequence
+from contextlib import contextmanager
 from dataclasses import dataclass, field, replace
+from typing import Any
 
 from ..errors import ConvergenceError, InputError, NoSolutionError
 from ..physics.flicker import ieee1789_band
@@ -194,6 +198,7 @@ class Mode:
         "c",
         "chord",
         "den_inv",
+        "evs",
         "g_hi",
         "g_lo",
         "g_on",
@@ -211,6 +216,7 @@ class Mode:
     def __init__(self, sol: Solver, sigma: int, chord: int, on: tuple[bool, ...]) -> None:
         c = sol.c
         self.key = (sigma, chord, on)
+        self.evs: list[tuple[float, float, float, float, str, int]] | None = None  # see Solver.half_period
         self.sigma, self.chord, self.on = sigma, chord, on
         G = (1.0 / c.bleeder) if c.bleeder else 0.0
         J = 0.0
@@ -292,19 +298,18 @@ class Solver:
         if circuit.dropper:
             i_est = min(i_est, 3 * self.omega * circuit.dropper * self.vpk)
         self.chords = circuit.bridge.chords(max(i_est, 1e-3))
+        self.starts = [start for start, _, _ in self.chords]
         self.grid = grid
         self.modes: dict[tuple[int, int, tuple[bool, ...]], Mode] = {}
         self.steps = 0
         self.iterations = 0
+        self.segments: list[tuple[float, float, Mode, Vec]] = []  # of the last converged half period
 
     def chord_drop(self, current: float) -> float:
         """Pair drop of the piecewise-linear bridge model actually solved."""
         if current <= 0:
             return 0.0
-        a, r = self.chords[0][1], self.chords[0][2]
-        for start, aa, rr in self.chords:
-            if current >= start:
-                a, r = aa, rr
+        _, a, r = self.chords[max(bisect.bisect_right(self.starts, current) - 1, 0)]
         return a + r * current
 
     def mode(self, sigma: int, chord: int, on: tuple[bool, ...]) -> Mode:
@@ -351,6 +356,55 @@ class Solver:
             E[2] * y0 + E[3] * y1 + p1[1] + F[2] * c0 + F[3] * c1,
         )
         return x, E
+
+    def track(self, m: Mode, t0: float, x0: Vec) -> Callable[[float], tuple[float, float, float, float]]:
+        """The state inside mode ``m`` from (t0, x0) as a function of t, the same
+        closed form as :meth:`propagate` with the piece's constants hoisted out
+        (the march and the event search call it hundreds of times per half
+        period). Returns (vcd, vcs, sin(omega t), cos(omega t))."""
+        l1, l2 = m.l1, m.l2
+        a11, a12, a21, a22 = m.A
+        dl = l1 - l2
+        w = self.omega
+        xr0, xr1 = m.Xr
+        xi0, xi1 = m.Xi
+        cw0, sw0 = math.cos(w * t0), math.sin(w * t0)
+        y0 = x0[0] - (xr0 * cw0 - xi0 * sw0)
+        y1 = x0[1] - (xr1 * cw0 - xi1 * sw0)
+        c0, c1 = m.c
+        # x = E y + F c + p(t) with E = e2 I + de (A - l2 I), F = f2 I + df (A - l2 I)
+        u0, u1 = (a11 - l2) * y0 + a12 * y1, a21 * y0 + (a22 - l2) * y1
+        v0, v1 = (a11 - l2) * c0 + a12 * c1, a21 * c0 + (a22 - l2) * c1
+        exp, expm1, cos, sin = math.exp, math.expm1, math.cos, math.sin
+
+        def at(t: float) -> tuple[float, float, float, float]:
+            tau = t - t0
+            z1, z2 = l1 * tau, l2 * tau
+            e2 = exp(z2)
+            dz = z1 - z2
+            if dz > 30:
+                de = (exp(z1) - e2) / dl
+            elif dz > 1e-9:
+                de = e2 * expm1(dz) / dl
+            else:
+                de = tau * e2
+            g2 = 1.0 + z2 / 2 + z2 * z2 / 6 if -1e-5 < z2 < 1e-5 else expm1(z2) / z2
+            f2 = tau * g2
+            if dz > (1e-4 if -1.0 < z2 < 1.0 else (-1e-4 * z2 if z2 < 0 else 1e-4 * z2)):
+                g1 = 1.0 + z1 / 2 + z1 * z1 / 6 if -1e-5 < z1 < 1e-5 else expm1(z1) / z1
+                df = tau * (g1 - g2) / dl
+            else:
+                df = tau * tau * _g1p((z1 + z2) / 2)
+            wt = w * t
+            ct, st = cos(wt), sin(wt)
+            return (
+                e2 * y0 + de * u0 + f2 * c0 + df * v0 + xr0 * ct - xi0 * st,
+                e2 * y1 + de * u1 + f2 * c1 + df * v1 + xr1 * ct - xi1 * st,
+                st,
+                ct,
+            )
+
+        return at
 
     def value(self, lin: Lin, x: Vec, t: float) -> float:
         return lin[0] * x[0] + lin[1] * x[1] + lin[2] * self.vpk * math.sin(self.omega * t) + lin[3]
@@ -410,6 +464,65 @@ class Solver:
         on[k] = not on[k]
         return self.mode(m.sigma, m.chord, tuple(on))
 
+    def _crossing(
+        self,
+        m: Mode,
+        at: Callable[[float], tuple[float, float, float, float]],
+        g: Lin,
+        lo: float,
+        glo: float,
+        hi: float,
+        ghi: float,
+    ) -> float:
+        """The first time in (lo, hi] where the event function g (vs scaled to
+        the peak) turns negative, given g(lo) >= 0 > g(hi): Newton steps on the
+        exact state (its derivative is A x + B vs + c) kept inside the bracket,
+        the Illinois variant of regula falsi where Newton would leave it, and a
+        last probe just across the root so the bracket closes from both sides.
+        Returns the bracket's negative end, within 1e-13 of a period of the root."""
+        g0, g1, g2, g3 = g
+        a11, a12, a21, a22 = m.A
+        b0, b1 = m.B[0] * self.vpk, m.B[1] * self.vpk
+        c0, c1 = m.c
+        w = self.omega
+        tol = 1e-13 * self.period
+        side = 0
+        newton = 8  # Newton attempts before plain regula falsi
+        mid = hi - ghi * (hi - lo) / (ghi - glo) if ghi != glo else 0.5 * (lo + hi)
+        for _ in range(80):
+            if hi - lo < tol:
+                break
+            if not lo < mid < hi:
+                mid = 0.5 * (lo + hi)
+            x0, x1, st, ct = at(mid)
+            self.steps += 1
+            gm = g0 * x0 + g1 * x1 + g2 * st + g3
+            if gm < 0:
+                hi, ghi = mid, gm
+                if side == -1:
+                    glo *= 0.5
+                side = -1
+            else:
+                lo, glo = mid, gm
+                if side == 1:
+                    ghi *= 0.5
+                side = 1
+            if hi - lo < tol:
+                break
+            nt = lo - 1.0
+            if newton > 0:
+                newton -= 1
+                dg = g0 * (a11 * x0 + a12 * x1 + b0 * st + c0) + g1 * (a21 * x0 + a22 * x1 + b1 * st + c1) + g2 * w * ct
+                if dg != 0:
+                    nt = mid - gm / dg
+                    if abs(nt - mid) < 0.25 * tol:
+                        nt += 0.5 * tol if gm >= 0 else -0.5 * tol
+            if lo < nt < hi:
+                mid = nt
+            else:
+                mid = hi - ghi * (hi - lo) / (ghi - glo) if ghi != glo else 0.5 * (lo + hi)
+        return hi
+
     def half_period(self, x0: Vec, record: bool = False) -> tuple[Vec, Mat, list[tuple[float, float, Mode, Vec]]]:
         """Integrate from t = 0 to T/2. Returns the end state, d(end)/d(start)
         and, if asked, the segments (t0, t1, mode, state at t0)."""
@@ -419,50 +532,38 @@ class Solver:
         M: Mat = (1.0, 0.0, 0.0, 1.0)
         segs: list[tuple[float, float, Mode, Vec]] = []
         h = self.half / self.grid
+        vpk, w = self.vpk, self.omega
+        end = self.half * (1 - 1e-14)
         guard = 0
         while t < self.half * (1 - 1e-14):
             guard += 1
             if guard > 50 * self.grid:
                 raise ConvergenceError("events", "too many switching events in one half period")
-            ev = self._events(m)
             t_seg0, x_seg0 = t, x
+            at = self.track(m, t, x)
+            evs = m.evs
+            if evs is None:
+                evs = m.evs = [(g[0], g[1], g[2] * vpk, g[3], kind, k) for g, kind, k in self._events(m)]
             # march the grid until an event function turns negative
             hit: tuple[float, str, int] | None = None
-            ta, xa = t, x
-            while ta < self.half * (1 - 1e-14) and hit is None:
+            ta = t
+            ra = (x[0], x[1], math.sin(w * t), math.cos(w * t))
+            while ta < end and hit is None:
                 tb = min(ta + h, self.half)
-                xb, _ = self.propagate(m, t_seg0, x_seg0, tb - t_seg0)
+                rb = at(tb)
+                self.steps += 1
                 best = None
-                for g, kind, k in ev:
-                    if self.value(g, xb, tb) < 0:
-                        # refine the crossing in (ta, tb] by the Illinois variant of regula falsi
-                        lo, hi = ta, tb
-                        glo, ghi = self.value(g, xa, ta), self.value(g, xb, tb)
-                        side = 0
-                        for _ in range(80):
-                            if hi - lo < 1e-13 * self.period:
-                                break
-                            mid = hi - ghi * (hi - lo) / (ghi - glo) if ghi != glo else 0.5 * (lo + hi)
-                            if not lo < mid < hi:
-                                mid = 0.5 * (lo + hi)
-                            xm, _ = self.propagate(m, t_seg0, x_seg0, mid - t_seg0)
-                            gm = self.value(g, xm, mid)
-                            if gm < 0:
-                                hi, ghi = mid, gm
-                                if side == -1:
-                                    glo *= 0.5
-                                side = -1
-                            else:
-                                lo, glo = mid, gm
-                                if side == 1:
-                                    ghi *= 0.5
-                                side = 1
-                        if best is None or hi < best[0]:
-                            best = (hi, kind, k)
+                for g0, g1, g2, g3, kind, k in evs:
+                    gb = g0 * rb[0] + g1 * rb[1] + g2 * rb[2] + g3
+                    if gb < 0:
+                        ga = g0 * ra[0] + g1 * ra[1] + g2 * ra[2] + g3
+                        tc = self._crossing(m, at, (g0, g1, g2, g3), ta, ga, tb, gb)
+                        if best is None or tc < best[0]:
+                            best = (tc, kind, k)
                 if best is not None:
                     hit = best
                 else:
-                    ta, xa = tb, xb
+                    ta, ra = tb, rb
             if hit is None:
                 t_end = self.half
                 kind, k = "", 0
@@ -489,10 +590,11 @@ class Solver:
         last = math.inf
         for it in range(max_iter):
             self.iterations = it + 1
-            y, M, _ = self.half_period(x)
+            y, M, segs = self.half_period(x, record=True)
             r = (-y[0] - x[0], y[1] - x[1])
             norm = max(abs(r[0]), abs(r[1]))
             if norm < tol * scale:
+                self.segments = segs  # the converged pass: no need to run it again to record it
                 return x
             # J = S M - I
             j11, j12, j21, j22 = -M[0] - 1, -M[1], M[2], M[3] - 1
@@ -592,6 +694,48 @@ def initial_state(c: Circuit) -> Vec:
     return (vcd, vb)
 
 
+class Memo:
+    """Answers kept while a :func:`memo` block runs: steady states by
+    (circuit, points, wave_points, spectrum_points) and anything else a
+    solver module keys by its own tuple (the switch-on transient)."""
+
+    def __init__(self) -> None:
+        self.states: dict[tuple[Circuit, int, int, int], SteadyState] = {}
+        self.other: dict[tuple[object, ...], object] = {}
+
+    @staticmethod
+    def put(table: dict[Any, Any], key: object, value: object) -> None:
+        if len(table) >= MEMO_SIZE:
+            del table[next(iter(table))]
+        table[key] = value
+
+
+_memo: Memo | None = None
+MEMO_SIZE = 256
+
+
+def active_memo() -> Memo | None:
+    """The memo of the :func:`memo` block running now, if any."""
+    return _memo
+
+
+@contextmanager
+def memo() -> Iterator[None]:
+    """Within the block, a circuit solved again at the same resolution is
+    answered from the first solve (the planner reviews each draft twice: to
+    size its ratings and to judge the written design, which has the same
+    circuit). The states are frozen; the oldest go past ``MEMO_SIZE``."""
+    global _memo
+    outer = _memo
+    if outer is None:
+        _memo = Memo()
+    try:
+        yield
+    finally:
+        if outer is None:
+            _memo = None
+
+
 def solve(
     c: Circuit, points: int = 600, wave_points: int = 200, spectrum_points: int = 0, start: Vec | None = None
 ) -> SteadyState:
@@ -600,6 +744,18 @@ def solve(
     period, for harmonic spectra and camera exposure. ``start`` is an optional
     warm start (the state at t = 0 of a nearby circuit); Newton converges to the
     same answer."""
+    key = (c, points, wave_points, spectrum_points)
+    if _memo is not None:
+        hit = _memo.states.get(key)
+        if hit is not None:
+            return hit
+    st = _solve(c, points, wave_points, spectrum_points, start)
+    if _memo is not None:
+        Memo.put(_memo.states, key, st)
+    return st
+
+
+def _solve(c: Circuit, points: int, wave_points: int, spectrum_points: int, start: Vec | None) -> SteadyState:
     if spectrum_points < 0 or spectrum_points % 2:
         raise InputError("spectrum_points", spectrum_points, "an even number of samples per period, or 0")
     sol = Solver(c)
@@ -611,8 +767,8 @@ def solve(
             f"a string knee below the mains peak less the bridge drop ({sol.vpk - a0:.4g} V)",
             "no conduction: the LED strings need more than the mains peak",
         )
-    x0 = sol.solve(start if start is not None else initial_state(c))
-    _, _, segs = sol.half_period(x0, record=True)
+    sol.solve(start if start is not None else initial_state(c))
+    segs = sol.segments
     st = _measure(sol, segs, points, wave_points)
     if spectrum_points:
         st = replace(st, period_samples=_period_samples(sol, segs, spectrum_points))
@@ -623,17 +779,22 @@ def _period_samples(sol: Solver, segs: list[tuple[float, float, Mode, Vec]], n: 
     """Exact waveforms at t = k T / n, k = 0 .. n - 1 (the second half mirrors the first)."""
     half_n = n // 2
     rows: list[tuple[float, ...]] = []
+    trackers: dict[int, Callable[[float], tuple[float, float, float, float]]] = {}
     si = 0
     for q in range(half_n):
         t = sol.half * q / half_n
         while si + 1 < len(segs) and t >= segs[si][1]:
             si += 1
         t0, _, m, x0 = segs[si]
-        x, _ = sol.propagate(m, t0, x0, t - t0)
+        at = trackers.get(si)
+        if at is None:
+            at = trackers[si] = sol.track(m, t0, x0)
+        xa, xb, st, _ = at(t)
+        x = (xa, xb)
         vb = sol.value(m.vb_lin, x, t)
         per = tuple(max(vb - s.knee, 0.0) / s.resistance for s in sol.loads)
         led = sum(s.count * p for s, p in zip(sol.loads, per))
-        rows.append((t, sol.vpk * math.sin(sol.omega * t), sol.value(m.i_lin, x, t), led, *per))
+        rows.append((t, sol.vpk * st, sol.value(m.i_lin, x, t), led, *per))
     rows += [(r[0] + sol.half, -r[1], -r[2], *r[3:]) for r in rows]
     names = ["t", "mains_V", "line_current_A", "led_current_A"] + [f"string{k}_A" for k in range(len(sol.loads))]
     return {name: tuple(r[j] for r in rows) for j, name in enumerate(names)}
@@ -674,55 +835,84 @@ def _measure(sol: Solver, segs: list[tuple[float, float, Mode, Vec]], n: int, nw
     c = sol.c
     half = sol.half
 
+    trackers: dict[int, Callable[[float], tuple[float, float, float, float]]] = {}
+    vpk = sol.vpk
+    knees = [(s.knee, s.resistance) for s in sol.loads]
+
     def sample(k: int, t: float) -> tuple[float, float, float, float, float, float, float, tuple[float, ...]]:
-        t0, _, m, x0 = segs[k]
-        x, _ = sol.propagate(m, t0, x0, t - t0)
-        vb = sol.value(m.vb_lin, x, t)
-        per = tuple(max(vb - s.knee, 0.0) / s.resistance for s in sol.loads)
-        return (
-            t,
-            sol.vpk * math.sin(sol.omega * t),
-            x[0],
-            x[1],
-            vb,
-            sol.value(m.i_lin, x, t),
-            sol.value(m.ic_lin, x, t),
-            per,
-        )
+        seg = segs[k]
+        m = seg[2]
+        track = trackers.get(k)
+        if track is None:
+            track = trackers[k] = sol.track(m, seg[0], seg[3])
+        xa, xb, st, _ = track(t)
+        vs = vpk * st
+        vb = sol.value(m.vb_lin, (xa, xb), t)
+        i = sol.value(m.i_lin, (xa, xb), t)
+        ic = sol.value(m.ic_lin, (xa, xb), t)
+        per = tuple((vb - kn) / rs if vb > kn else 0.0 for kn, rs in knees)
+        return (t, vs, xa, xb, vb, i, ic, per)
 
     nodes = _nodes(segs, half, n)
-    rows = [sample(k, t) for k, t, _ in nodes]
+    # the samples, as columns
+    vsrc: list[float] = []
+    xcd: list[float] = []
+    vbus: list[float] = []
+    line: list[float] = []
+    icap: list[float] = []
+    string_cols: list[list[float]] = [[] for _ in knees]
+    cur = -1
+    for k, t, _ in nodes:
+        if k != cur:  # the nodes come piece by piece
+            cur = k
+            m = segs[k][2]
+            track = trackers[k] = sol.track(m, segs[k][0], segs[k][3])
+            b0, b1, b2, b3 = m.vb_lin
+            i0, i1, i2, i3 = m.i_lin
+            k0, k1, k2, k3 = m.ic_lin
+        xa, xb, st, _ = track(t)
+        vs = vpk * st
+        vb = b0 * xa + b1 * xb + b2 * vs + b3
+        vsrc.append(vs)
+        xcd.append(xa)
+        vbus.append(vb)
+        line.append(i0 * xa + i1 * xb + i2 * vs + i3)
+        icap.append(k0 * xa + k1 * xb + k2 * vs + k3)
+        for col, (kn, rs) in zip(string_cols, knees):
+            col.append((vb - kn) / rs if vb > kn else 0.0)
     wts = [w for _, _, w in nodes]
 
     def mean(xs: Sequence[float]) -> float:
-        return sum(w * x for w, x in zip(wts, xs))
+        return float(sum(map(operator.mul, wts, xs)))
+
+    def mean_of_product(a: Sequence[float], b: Sequence[float]) -> float:
+        return float(sum(map(operator.mul, wts, map(operator.mul, a, b))))
 
     def stats(xs: Sequence[float]) -> Stats:
-        return Stats(mean(xs), math.sqrt(max(mean([x * x for x in xs]), 0.0)), min(xs), max(xs))
+        return Stats(mean(xs), math.sqrt(max(mean_of_product(xs, xs), 0.0)), min(xs), max(xs))
 
-    led = [sum(s.count * p for s, p in zip(sol.loads, r[7])) for r in rows]
-    vbus = [r[4] for r in rows]
-    line = [r[5] for r in rows]
+    led = [0.0] * len(nodes)
+    for s, col in zip(sol.loads, string_cols):
+        led = [a + s.count * v for a, v in zip(led, col)]
     idc = [abs(v) for v in line]
-    icap = [r[6] for r in rows]
     gb = 1 / c.dropper_bleeder if (c.dropper and c.dropper_bleeder) else 0.0
-    i_cd = [r[5] - r[2] * gb for r in rows]
-    pin = mean([r[1] * r[5] for r in rows])
-    irms = math.sqrt(mean([v * v for v in line]))
+    i_cd = [i - v * gb for i, v in zip(line, xcd)]
+    pin = mean_of_product(vsrc, line)
+    line_sq = mean_of_product(line, line)
+    irms = math.sqrt(line_sq)
     s_app = c.mains_voltage * irms
     led_power = 0.0
     ballast_loss = 0.0
-    for k, s in enumerate(sol.loads):
-        ik = [r[7][k] for r in rows]
-        pb = s.ballast * mean([ii * ii for ii in ik])
-        led_power += s.count * (mean([ii * vb for ii, vb in zip(ik, vbus)]) - pb)
+    for s, ik in zip(sol.loads, string_cols):
+        pb = s.ballast * mean_of_product(ik, ik)
+        led_power += s.count * (mean_of_product(ik, vbus) - pb)
         ballast_loss += s.count * pb
     losses = {
-        "series_resistor": c.series_resistance * mean([v * v for v in line]),
+        "series_resistor": c.series_resistance * line_sq,
         "bridge": mean([a * sol.chord_drop(a) for a in idc]),
-        "esr": c.esr * mean([v * v for v in icap]),
-        "bus_bleeder": mean([v * v for v in vbus]) / c.bleeder if c.bleeder else 0.0,
-        "dropper_bleeder": mean([r[2] ** 2 for r in rows]) * gb,
+        "esr": c.esr * mean_of_product(icap, icap),
+        "bus_bleeder": mean_of_product(vbus, vbus) / c.bleeder if c.bleeder else 0.0,
+        "dropper_bleeder": mean_of_product(xcd, xcd) * gb,
         "ballast": ballast_loss,
     }
     led_stats = stats(led)
@@ -737,12 +927,12 @@ def _measure(sol: Solver, segs: list[tuple[float, float, Mode, Vec]], n: int, nw
         t = half * q / (nw // 2)
         while si + 1 < len(segs) and t >= segs[si][1]:
             si += 1
-        r = sample(si, t)
-        wave.append((t, r[1], r[5], r[4], sum(s.count * p for s, p in zip(sol.loads, r[7]))))
+        row = sample(si, t)
+        wave.append((t, row[1], row[5], row[4], sum(s.count * p for s, p in zip(sol.loads, row[7]))))
     wave += [(t + half, -v, -i, b, lc) for t, v, i, b, lc in wave]
     return SteadyState(
         led_current=led_stats,
-        string_current=tuple(stats([r[7][k] for r in rows]) for k in range(len(sol.loads))),
+        string_current=tuple(stats(col) for col in string_cols),
         bus_voltage=stats(vbus),
         ripple_pp=max(vbus) - min(vbus),
         percent_flicker=pf,
@@ -751,11 +941,11 @@ def _measure(sol: Solver, segs: list[tuple[float, float, Mode, Vec]], n: int, nw
         flicker_band=band.name,
         low_risk_limit=band.low_risk_limit,
         no_effect_limit=band.no_effect_limit,
-        dropper_current_rms=math.sqrt(mean([v * v for v in i_cd])) if c.dropper else 0.0,
-        dropper_voltage_peak=max(abs(r[2]) for r in rows) if c.dropper else 0.0,
-        smoothing_ripple_current_rms=math.sqrt(mean([v * v for v in icap])),
+        dropper_current_rms=math.sqrt(mean_of_product(i_cd, i_cd)) if c.dropper else 0.0,
+        dropper_voltage_peak=max(map(abs, xcd)) if c.dropper else 0.0,
+        smoothing_ripple_current_rms=math.sqrt(mean_of_product(icap, icap)),
         diode_current_avg=mean(idc) / 2,
-        diode_current_rms=math.sqrt(mean([v * v for v in idc]) / 2),
+        diode_current_rms=math.sqrt(line_sq / 2),
         diode_current_peak=max(idc),
         line_current_rms=irms,
         input_power=pin,
@@ -800,7 +990,15 @@ def open_load(c: Circuit) -> tuple[float, float]:
     """Every string open: the bus voltage the smoothing capacitor climbs to,
     and the time constant of the climb (charge balance: Cs / (4 f Cd) through
     a dropper; about Cs (Rs + 2 Rd) through a resistor feed)."""
+    v, tau, _ = open_load_state(c)
+    return v, tau
+
+
+def open_load_state(c: Circuit) -> tuple[float, float, SteadyState | None]:
+    """:func:`open_load` and the steady state it solved (None without a bus
+    bleeder: the bus then climbs to the peak and stays)."""
     vpk = math.sqrt(2) * c.mains_voltage
+    st: SteadyState | None = None
     if c.bleeder:
         oc = Circuit(**{**c.__dict__, "strings": ()})
         st = solve(oc)
@@ -811,4 +1009,4 @@ def open_load(c: Circuit) -> tuple[float, float]:
         tau = c.smoothing / (4 * c.frequency * c.dropper)
     else:
         tau = c.smoothing * (c.series_resistance + 2 * c.bridge.resistance + c.esr) * math.pi
-    return v, tau
+    return v, tau, st

@@ -24,7 +24,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from .steady import Circuit
+from .steady import Circuit, Memo, active_memo
 
 Mat6 = list[list[float]]
 Vec6 = list[float]
@@ -53,8 +53,15 @@ class Surge:
 
 
 def _matmul(a: Mat6, b: Mat6) -> Mat6:
+    if len(b) != 6:
+        cols = list(zip(*b))
+        return [[sum(x * y for x, y in zip(row, col)) for col in cols] for row in a]
+    # written out for the six states (the matrix exponential's inner loop)
     cols = list(zip(*b))
-    return [[sum(x * y for x, y in zip(row, col)) for col in cols] for row in a]
+    out = []
+    for r0, r1, r2, r3, r4, r5 in a:
+        out.append([r0 * p0 + r1 * p1 + r2 * p2 + r3 * p3 + r4 * p4 + r5 * p5 for p0, p1, p2, p3, p4, p5 in cols])
+    return out
 
 
 def _matvec(a: Mat6, x: Vec6) -> Vec6:
@@ -323,6 +330,19 @@ def worst_switch_on(c: Circuit, supply: Supply, steps: int = 1000) -> Surge:
     """The closing phase that makes the line I²t worst, by climbing from the
     crest in 15° steps (between 30° and 150°) while it grows; crest closing is
     the usual worst, a large source inductance or a slow RC can move it."""
+    memo = active_memo()
+    key = ("worst_switch_on", c, supply, steps)
+    if memo is not None and key in memo.other:
+        hit = memo.other[key]
+        assert isinstance(hit, Surge)
+        return hit
+    best = _worst_switch_on(c, supply, steps)
+    if memo is not None:
+        Memo.put(memo.other, key, best)
+    return best
+
+
+def _worst_switch_on(c: Circuit, supply: Supply, steps: int) -> Surge:
     runs = {p: switch_on(c, supply, p, steps) for p in (90.0 - PHASE_STEP, 90.0, 90.0 + PHASE_STEP)}
     best = max(runs.values(), key=lambda s: s.i2t)
     direction = 0.0 if best.phase_deg == 90.0 else (1.0 if best.phase_deg > 90.0 else -1.0)
