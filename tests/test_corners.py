@@ -330,3 +330,29 @@ def test_all_dark_design_is_answered_with_zeros_and_a_failure() -> None:
     from lampcalc.present.sheet import render
 
     assert "led.light" in render(parse_design((HERE / "all-dark.toml").read_text()), ans, None)
+
+
+def test_near_tie_names_the_first_corner_in_the_list() -> None:
+    # two corners whose bus peaks differ only in the last digits (1e-12 relative: below the survey's own
+    # rounding) are a tie: the earlier corner of the list is named, whatever the last digit says
+    import dataclasses
+
+    d = parse_design((DEMO / "panel-230.toml").read_text())
+    solved = solve_corners(d)
+    w = worst(d, solved, refine=False)["bus_voltage_max_V"]
+    k = solved.index(w.solved)
+    assert k > 0
+    st = w.solved.state
+    assert st is not None
+    shaded = dataclasses.replace(
+        st, bus_voltage=dataclasses.replace(st.bus_voltage, max=st.bus_voltage.max * (1 - 1e-12))
+    )
+    first = dataclasses.replace(solved[0], state=shaded)
+    again = worst(d, [first, *solved[1:]], refine=False)["bus_voltage_max_V"]
+    assert again.solved.corner == solved[0].corner
+    # a real difference (1e-6) is not a tie: the larger value is named
+    lower = dataclasses.replace(
+        st, bus_voltage=dataclasses.replace(st.bus_voltage, max=st.bus_voltage.max * (1 - 1e-6))
+    )
+    again = worst(d, [dataclasses.replace(solved[0], state=lower), *solved[1:]], refine=False)["bus_voltage_max_V"]
+    assert again.solved.corner == w.solved.corner

@@ -164,3 +164,25 @@ capacitance = "220 uF"
     assert c.strings[0].knee == pytest.approx(34 * 2.70)
     assert c.strings[0].resistance == pytest.approx(34 * 2.0)
     assert math.isclose(c.dropper or 0, 1e-6)
+
+
+def test_memo_answers_a_repeated_circuit_inside_its_block_only() -> None:
+    from lampcalc.circuit import steady
+
+    c = steady.Circuit(
+        mains_voltage=230.0,
+        frequency=50.0,
+        series_resistance=47.0,
+        dropper=1e-6,
+        bridge=steady.Bridge(),
+        smoothing=100e-6,
+        strings=(steady.StringLoad(knee=60.0, resistance=200.0, count=2),),
+    )
+    fresh = steady.solve(c, points=120)
+    with steady.memo():
+        a = steady.solve(c, points=120)
+        b = steady.solve(c, points=120, start=(0.0, 0.0))  # a warm start does not change the answer
+        other = steady.solve(c, points=600)
+    assert a is b and other is not a
+    assert a.led_current.avg == pytest.approx(fresh.led_current.avg, rel=1e-9)
+    assert steady.solve(c, points=120) is not a  # outside the block every call solves

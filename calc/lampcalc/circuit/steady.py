@@ -11,8 +11,10 @@ stays in the millivolts. Between events (a diode pair starting or stopping
 conduction, a chord boundary, a string crossing its knee) the circuit is a
 linear two-state system driven by a sine, solved in closed form from the
 eigenvalues of its 2x2 matrix. Events are located by bracketing on a grid and
-refining by bisection, so sharp turn-ons (no series resistor) are resolved to
-the limit of floating point, not to a step size. The bridge is symmetric, so
+refining inside the bracket (Newton on the exact derivative, regula falsi
+where Newton would leave it) to 1e-13 of a period, so sharp turn-ons (no
+series resistor) are resolved to the limit of floating point, not to a step
+size. The bridge is symmetric, so
 the state after half a period is the mirror of the start (the dropper voltage
 changes sign); Newton's method on that half-period map, with the Jacobian
 taken as the product of the segments' transition matrices (exact for a
