@@ -24,6 +24,7 @@ from scipy.integrate import solve_ivp
 from scipy.linalg import expm as scipy_expm
 
 DEMO = Path(__file__).resolve().parent.parent / "docs" / "designs"
+HERE = Path(__file__).resolve().parent / "designs"
 
 
 def design(name: str) -> object:
@@ -121,6 +122,32 @@ def test_faults_single_judges_the_whole_chain() -> None:
     dried = _fault("smoothing.open", "hazard", led, [])
     assert faults_check([dried, safe_end]).status == "warn"  # one string: open load, which ends safe
     assert faults_check([dried, _fault("string.open", "hazard", led, ["array.open"]), burst_end]).status == "fail"
+
+
+def test_faults_single_never_takes_an_unanalysed_fault_as_safe() -> None:
+    from lampcalc.fixture.check import faults_check
+
+    led = [("led.current", "string fails open")]
+    safe_end = _fault("array.open", "safe", [], [])
+    unknown = _fault("smoothing.open", "unanalysed", [], [])
+    c = faults_check([safe_end, unknown])
+    assert c.status == "warn" and "smoothing.open" in c.message and "could not be analysed" in c.message
+    # a chain that runs into a fault the solver could not follow is not assumed to end safe
+    unknown_end = _fault("array.open", "unanalysed", [], [])
+    assert faults_check([_fault("string.open", "hazard", led, ["array.open"]), unknown_end]).status == "fail"
+
+
+def test_a_fault_the_solver_cannot_follow_is_not_analysed_not_dark() -> None:
+    # an invented design (tests/designs/chatter.toml): with the bus capacitor dried out to 2 %, the strings
+    # chatter at their knee and the solver finds no periodic steady state at nominal mains; the fault was
+    # once read as "dark, safe"
+    ans = check(parse_design((HERE / "chatter.toml").read_text()))
+    f = next(f for f in ans["faults"] if f["id"] == "smoothing.open")
+    assert f["outcome"] == "unanalysed" and not f["dark"]
+    assert any("not analysed at nominal" in n and "no periodic steady state" in n for n in f["notes"])
+    c = _faults_single(ans)
+    assert c["status"] in ("warn", "fail") and "smoothing.open" in c["message"]
+    assert "could not be analysed" in c["message"]
 
 
 def test_unsafe_demo_dropper_short_bursts_before_the_fuse() -> None:

@@ -539,7 +539,7 @@ class Solver:
         guard = 0
         while t < self.half * (1 - 1e-14):
             guard += 1
-            if guard > 50 * self.grid:
+            if guard > 10 * self.grid:  # valid solves seen: at most 116 pieces per half period (43 chords)
                 raise ConvergenceError("events", "too many switching events in one half period")
             t_seg0, x_seg0 = t, x
             at = self.track(m, t, x)
