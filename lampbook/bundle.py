@@ -14,6 +14,7 @@ import shutil
 import subprocess
 import sys
 import tempfile
+import tomllib
 import zipfile
 from pathlib import Path
 from typing import Any
@@ -370,11 +371,45 @@ def _wheel_modules(wheel: Path) -> list[str]:
     return sorted(n[:-3].replace("/", ".").removesuffix(".__init__") for n in names)
 
 
-def exercise(wheel: Path, designs: list[Path]) -> dict[str, Any]:
+def design_shape(text: str) -> str:
+    """A design file's shape: every key path it sets with the type of its value
+    (the code paths a review takes follow the tables and keys a file uses and the
+    form its values take, not the numbers). Two files of one shape exercise the
+    same modules; a file that does not parse is its own shape."""
+    try:
+        doc = tomllib.loads(text)
+    except (tomllib.TOMLDecodeError, UnicodeError):
+        return "unparsed:" + hashlib.sha256(text.encode("utf-8", "replace")).hexdigest()[:16]
+    paths: list[str] = []
+
+    def walk(node: object, at: str) -> None:
+        if isinstance(node, dict):
+            for k, v in node.items():
+                walk(v, f"{at}.{k}" if at else str(k))
+        elif isinstance(node, list):
+            paths.append(f"{at}:list")
+            for v in node:
+                walk(v, at + "[]")
+        else:
+            paths.append(f"{at}:{type(node).__name__}")
+
+    walk(doc, "")
+    # the choices that pick a different model or rule set, by value
+    for table, key in (("bridge", "model"), ("dropper", "class"), ("emissions", "class"), ("supply", "kind")):
+        v = doc.get(table, {}).get(key) if isinstance(doc.get(table), dict) else None
+        if v is not None:
+            paths.append(f"{table}.{key}={v}")
+    return hashlib.sha256("\n".join(sorted(set(paths))).encode()).hexdigest()[:16]
+
+
+def exercise(wheel: Path, designs: list[Path], texts: bool = True) -> dict[str, Any]:
     """What the measuring run does besides starting the engine: import every module of
     the core, describe, compute every calculator with its defaults and with a bad value
     in each field, answer bad requests, and check, study and sheet the starter design
-    (any page may open a design file) and each of DESIGNS."""
+    (any page may open a design file) and one design of each shape among DESIGNS (the
+    first by file name: a handbook of hundreds of variants of a few designs is measured
+    on those few). With ``texts`` false the designs are named by their shapes: the key
+    of the measurement, which editing a design's numbers leaves alone."""
     from lampcalc.calculators import CALCULATORS
 
     from .scaffold import DESIGN
@@ -384,10 +419,14 @@ def exercise(wheel: Path, designs: list[Path]) -> dict[str, Any]:
         requests.append({"kind": "compute", "calculator": name, "inputs": {}})
         for p in calc.params:
             requests.append({"kind": "compute", "calculator": name, "inputs": {p.name: "1e999 zz"}})
-    for toml in [DESIGN, *(d.read_text(encoding="utf-8") for d in designs)]:
-        requests.append({"kind": "check", "toml": toml, "waveforms": True})
-        requests.append({"kind": "study", "toml": toml, "samples": 8, "seed": 1})
-        requests.append({"kind": "sheet", "toml": toml})
+    shapes: dict[str, str] = {}
+    for toml in [DESIGN, *(d.read_text(encoding="utf-8") for d in sorted(designs))]:
+        shapes.setdefault(design_shape(toml), toml)
+    for shape, toml in shapes.items():
+        doc = toml if texts else "shape:" + shape
+        requests.append({"kind": "check", "toml": doc, "waveforms": True})
+        requests.append({"kind": "study", "toml": doc, "samples": 8, "seed": 1})
+        requests.append({"kind": "sheet", "toml": doc})
     requests.append({"kind": "check", "toml": "[not toml"})
     return {"modules": _wheel_modules(wheel), "requests": requests}
 
@@ -399,8 +438,9 @@ def stdlib_usage(engine_dir: Path, cache_dir: Path, designs: list[Path]) -> list
     script = Path(__file__).resolve().parent / "assets" / "stdlib_usage.mjs"
     wheel = next(engine_dir.glob("lampcalc-*.whl"))
     ex = json.dumps(exercise(wheel, designs), sort_keys=True)
+    shapes = json.dumps(exercise(wheel, designs, texts=False), sort_keys=True)
     parts = [sha256(engine_dir / f) for f in ("python_stdlib.zip", "pyodide.asm.wasm", "pyodide-lock.json")]
-    parts += [sha256(wheel), sha256(script), hashlib.sha256(ex.encode()).hexdigest()]
+    parts += [sha256(wheel), sha256(script), hashlib.sha256(shapes.encode()).hexdigest()]
     key = hashlib.sha256("".join(parts).encode()).hexdigest()[:20]
     out = cache_dir / f"stdlib-usage-{key}.json"
     if not out.is_file():

@@ -48,3 +48,35 @@ def test_one_version() -> None:
     assert r.stdout.strip() == f"lampbook {lampcalc.__version__}"
     text = (ROOT / "pyproject.toml").read_text() + (ROOT / "calc" / "pyproject.toml").read_text()
     assert lampcalc.__version__ not in text, "the version is written only in calc/lampcalc/__init__.py"
+
+
+def test_stdlib_measurement_runs_one_design_per_shape_and_keeps_its_key_across_edits(tmp_path: Path) -> None:
+    # a handbook of many variants of a few designs is measured on those few, and editing a number in a
+    # design does not start a new measurement (the key names shapes, not texts)
+    from lampbook.bundle import design_shape, exercise
+
+    demo = ROOT / "docs" / "designs"
+    base = (demo / "panel-230.toml").read_text(encoding="utf-8")
+    files = []
+    for k in range(12):
+        p = tmp_path / f"panel-{k:02d}.toml"
+        p.write_text(base.replace('name = "', f'name = "v{k} ', 1), encoding="utf-8")
+        files.append(p)
+    other = tmp_path / "worklight.toml"
+    other.write_text((demo / "worklight-120.toml").read_text(encoding="utf-8"), encoding="utf-8")
+    files.append(other)
+    wheel = tmp_path / "lampcalc-0-py3-none-any.whl"
+    with zipfile.ZipFile(wheel, "w") as z:
+        z.writestr("lampcalc/__init__.py", "")
+    sheets = [r for r in exercise(wheel, files)["requests"] if r["kind"] == "sheet"]
+    assert len(sheets) == 1 + len({design_shape(p.read_text(encoding="utf-8")) for p in files})
+    assert len(sheets) <= 4  # the starter design, the panel variants (one shape), the worklight
+    key = exercise(wheel, files, texts=False)
+    assert all(str(r.get("toml", "")).startswith(("shape:", "[not toml")) for r in key["requests"] if "toml" in r)
+    # a number edited in the first file: same shape, same key; a table added: a new shape
+    first = files[0]
+    first.write_text(first.read_text(encoding="utf-8").replace("revision = ", "revision = 'Z' #", 1), encoding="utf-8")
+    assert exercise(wheel, files, texts=False) == key
+    first.write_text(first.read_text(encoding="utf-8") + '\n[extra_table]\nnote = "x"\n', encoding="utf-8")
+    assert exercise(wheel, files, texts=False) != key
+    assert design_shape("[not toml") != design_shape("[still not toml")
