@@ -110,6 +110,8 @@ def test_the_theme_comes_from_the_caller() -> None:
     # with no theme given, only lampbook's own names and plain colours
     plain = sheet_html(reviewed("panel-230")[2])
     assert "admonition" not in plain and "var(--" not in plain and '<div class="lb-box lb-danger">' in plain
+    with pytest.raises(ValueError, match="background"):
+        HtmlTheme(background="#fff}</style><script>")
 
 
 def test_the_core_names_nothing_of_a_site_theme() -> None:

@@ -43,6 +43,13 @@ class HtmlTheme:
     background: str = "#fff"
     """CSS colour of the page behind a figure (a CSS variable of the theme, with a fallback, is fine)."""
 
+    def __post_init__(self) -> None:
+        # the colour goes into a <style> element: a value that could close the rule or the element is refused
+        if any(ch in self.background for ch in '<>{};"'):
+            raise ValueError(
+                f"background: got {self.background!r}; expected a CSS colour such as #fff or var(--x, #fff)"
+            )
+
     def caution(self, severity: Severity) -> str:
         return self.danger if severity == "danger" else self.warning
 
