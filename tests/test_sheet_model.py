@@ -109,7 +109,8 @@ def test_the_theme_comes_from_the_caller() -> None:
     assert ".gap{fill:rgb(1, 2, 3);stroke:none}" in mains
     # with no theme given, only lampbook's own names and plain colours
     plain = sheet_html(reviewed("panel-230")[2])
-    assert "admonition" not in plain and "var(--" not in plain and '<div class="lb-box lb-danger">' in plain
+    assert "admonition" not in plain and "--md-" not in plain and '<div class="lb-box lb-danger">' in plain
+    assert ".gap{fill:var(--lb-paper, #fff);stroke:none}" in plain
     with pytest.raises(ValueError, match="background"):
         HtmlTheme(background="#fff}</style><script>")
 

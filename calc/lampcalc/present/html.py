@@ -40,8 +40,9 @@ class HtmlTheme:
     """Classes of the box for a caution short of mains."""
     box_title: str = "lb-box-title"
     """Class of a caution box's title."""
-    background: str = "#fff"
-    """CSS colour of the page behind a figure (a CSS variable of the theme, with a fallback, is fine)."""
+    background: str = "var(--lb-paper, #fff)"
+    """CSS colour of the page behind a figure (a CSS variable of the theme, with a fallback, is fine).
+    The default is lampbook's own variable, which its stylesheet sets from the theme."""
 
     def __post_init__(self) -> None:
         # the colour goes into a <style> element: a value that could close the rule or the element is refused
