@@ -223,7 +223,8 @@ def render(block: Block, safety_url: str | None) -> str:
 
 def render_table(index: int, body: str) -> str:
     from lampcalc.cautions import UNVERIFIED_NOTE, daggered
-    from lampcalc.present.sheet import keep_numbers
+    from lampcalc.present.html import keep_numbers, table_html
+    from lampcalc.present.model import Table, words
     from lampcalc.present.tables import TABLES
 
     opts = {}
@@ -240,21 +241,19 @@ def render_table(index: int, body: str) -> str:
     # a limit recalled rather than read against its standard: a dagger in its cell or source, one note below
     marked: list[bool] = []
 
-    def cell(text: str) -> str:
+    def shown(text: str) -> str:
         out, unverified = daggered(text)
         marked.append(unverified)
-        return _esc(keep_numbers(out))
+        return keep_numbers(out)
 
-    head = "".join(f"<th>{_esc(h)}</th>" for h in t.headers)
-    body_html = "".join("<tr>" + "".join(f"<td>{cell(c)}</td>" for c in r) + "</tr>" for r in t.rows)
-    src = "".join(f"<li>{cell(x)}</li>" for x in t.sources)
+    grid = Table(t.headers, tuple(tuple(words(shown(c)) for c in r) for r in t.rows))
+    src = "".join(f"<li>{_esc(shown(x))}</li>" for x in t.sources)
     if any(marked):
         src += f'<li class="lb-unverified">{_esc(UNVERIFIED_NOTE)}</li>'
     return (
         f'<div class="lb-reftable" data-table="{_esc(name)}">'
         f'<p class="lb-tabletitle"><strong>{_esc(t.title)}</strong></p>'
-        f'<div class="lb-scroll"><table class="lb-table lb-cards"><thead><tr>{head}</tr></thead>'
-        f"<tbody>{body_html}</tbody></table></div>"
+        f"{table_html(grid)}"
         f'<ul class="lb-sources">{src}</ul></div>'
     )
 

@@ -20,6 +20,15 @@ REVIEW_OPTIONS: dict[str, Any] = {"check": {"waveforms": True}, "study": {}}
 
 VERDICTS = ("fail", "warn", "pass")
 
+SHEET_THEME: dict[str, str] = {
+    "danger": "admonition danger",
+    "warning": "admonition warning",
+    "box_title": "admonition-title",
+    "background": "var(--md-default-bg-color,#fff)",
+}
+"""What a build sheet takes from the site's theme (mkdocs-material): its admonition kinds for the
+cautions and its page colour behind the schematic. Part of the cached page, so part of the cache key."""
+
 
 class ReviewError(ValueError):
     """A design that cannot be reviewed (bad input, or no solution); the message names the file."""
@@ -84,7 +93,8 @@ def review_sheet(text: str) -> dict[str, Any]:
     from lampcalc.fixture.check import check
     from lampcalc.fixture.design import parse_design
     from lampcalc.fixture.tolerance import study
-    from lampcalc.present.sheet import markdown_page
+    from lampcalc.present.html import HtmlTheme, markdown_page
+    from lampcalc.present.sheet import build_sheet
 
     t0 = time.perf_counter()
     try:
@@ -93,7 +103,7 @@ def review_sheet(text: str) -> dict[str, Any]:
         st = study(d, **REVIEW_OPTIONS["study"])
     except CalcError as e:
         return {"error": _errors_text(e)}
-    page = markdown_page(d, ans, st)
+    page = markdown_page(build_sheet(d, ans, st), HtmlTheme(**SHEET_THEME))
     return {"page": page, "summary": summary(ans), "seconds": time.perf_counter() - t0}
 
 

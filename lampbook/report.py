@@ -1,11 +1,14 @@
-"""Plain-text rendering of core answers for the terminal."""
+"""Plain-text rendering of core answers and sheet models for the terminal."""
 
 from __future__ import annotations
 
 import contextlib
 import textwrap
 from collections.abc import Iterator, Mapping, Sequence
-from typing import Any
+from typing import TYPE_CHECKING, Any
+
+if TYPE_CHECKING:
+    from lampcalc.present.model import Block, CheckItem, Sheet, Text
 
 #: Terminal width the report keeps to unless asked for full width.
 WIDTH = 80
@@ -124,3 +127,64 @@ def answer(desc: Mapping[str, Any], ans: Mapping[str, Any], wide: bool = False) 
         if block:
             parts += ["", block]
     return "\n".join(parts)
+
+
+# --- sheet models (lampcalc.present.model) as plain text ------------------------------------
+
+
+def _words(t: Text) -> str:
+    from lampcalc.present.model import plain
+
+    return plain(t)
+
+
+def _para(t: Text) -> str:
+    """A paragraph: each of its lines kept within the width, wrapped lines indented under it."""
+    width = _limit(WIDTH)
+    out = []
+    for line in _words(t).split("\n"):
+        out.extend(textwrap.wrap(line, width, subsequent_indent="  ") if width and len(line) > width else [line])
+    return "\n".join(out)
+
+
+def block_text(b: Block) -> str:
+    """One block of a sheet model as plain text."""
+    from lampcalc.present import model as m
+
+    if isinstance(b, m.Section):
+        return _titled(b.heading, "-" if b.level == 2 else "~", b.blocks)
+    if isinstance(b, (m.Paragraph, m.Verdict)):
+        return _para(b.text)
+    if isinstance(b, m.Caution):
+        return bullets(b.title, [_words(x) for x in b.items])
+    if isinstance(b, m.Bullets):
+        return "\n".join(
+            textwrap.fill(_words(x), _limit(WIDTH - 2) or 10_000, initial_indent="  - ", subsequent_indent="    ")
+            for x in b.items
+        )
+    if isinstance(b, m.Table):
+        return table(b.headers, [[_words(c.text).replace("\n", "; ") for c in r] for r in b.rows])
+    if isinstance(b, m.Figure):
+        return _para(m.text(f"[{b.kind}: {b.caption}]"))
+    return "\n\n".join(_check_text(c) for c in b.items)
+
+
+def _check_text(c: CheckItem) -> str:
+    """A check: status and id, then its finding, what would pass, why and its source, indented."""
+    width = _limit(WIDTH) or 10_000
+    lines = [f"{c.status.upper()}  {c.id}"]
+    for head, body in (("", c.finding), ("Would pass: ", c.would_pass), ("Why: ", c.why), ("Source: ", c.source)):
+        if body:
+            lines.append(textwrap.fill(head + body, width, initial_indent="  ", subsequent_indent="    "))
+    return "\n".join(lines)
+
+
+def _titled(title: str, rule: str, blocks: Sequence[Block]) -> str:
+    """A title underlined, its blocks under it, a blank line between blocks."""
+    return f"{title}\n{rule * len(title)}\n" + "\n\n".join(block_text(b) for b in blocks)
+
+
+def sheet_text(sheet: Sheet) -> str:
+    """A sheet model as plain text: its title underlined, its blocks apart by a blank line,
+    within 80 columns unless full width was asked for."""
+    return _titled(sheet.title, "=", sheet.blocks)

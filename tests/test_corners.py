@@ -315,10 +315,10 @@ def test_internal_ambient_defaults_ten_kelvin_above_the_room() -> None:
 
 
 def test_schematic_labels_the_dropper_with_its_declared_class() -> None:
-    from lampcalc.present.sheet import schematic
+    from lampcalc.present.figures import schematic
 
-    svg = schematic(parse_design((HERE / "motor-run.toml").read_text()))
-    assert "motor-run" in svg and " X2<" not in svg
+    fig = schematic(parse_design((HERE / "motor-run.toml").read_text()))
+    assert "motor-run" in fig.svg and " X2<" not in fig.svg
 
 
 def test_all_dark_design_is_answered_with_zeros_and_a_failure() -> None:
@@ -327,9 +327,10 @@ def test_all_dark_design_is_answered_with_zeros_and_a_failure() -> None:
     assert not ans["nominal_conducts"] and not ans["high_conducts"]
     assert ans["nominal"]["led_current_avg_A"] == 0.0  # type: ignore[index]
     assert one(ans, "led.light")["status"] == "fail"
-    from lampcalc.present.sheet import render
+    from lampcalc.present.html import sheet_html
+    from lampcalc.present.sheet import build_sheet
 
-    assert "led.light" in render(parse_design((HERE / "all-dark.toml").read_text()), ans, None)
+    assert "led.light" in sheet_html(build_sheet(parse_design((HERE / "all-dark.toml").read_text()), ans, None))
 
 
 def test_near_tie_names_the_first_corner_in_the_list() -> None:

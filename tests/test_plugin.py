@@ -183,7 +183,7 @@ def test_design_folder_becomes_sheet_pages(tmp_path: Path) -> None:
 def test_reference_tables_equal_core(tmp_path: Path) -> None:
     # cells as the core gives them, a number kept with its unit, a recalled limit shown as a dagger
     from lampcalc.cautions import UNVERIFIED_NOTE, daggered
-    from lampcalc.present.sheet import keep_numbers
+    from lampcalc.present.html import keep_numbers
     from lampcalc.present.tables import TABLES
 
     def shown(text: str) -> str:

@@ -14,7 +14,8 @@ from lampcalc.fixture.check import check
 from lampcalc.fixture.design import parse_design
 from lampcalc.fixture.review import capacitor_life
 from lampcalc.fixture.tolerance import study
-from lampcalc.present.sheet import OPERATING_ROWS, cell, render
+from lampcalc.present.html import sheet_html
+from lampcalc.present.sheet import OPERATING_ROWS, build_sheet, cell
 
 DESIGNS = Path(__file__).resolve().parent.parent / "docs" / "designs"
 BASE = (DESIGNS / "panel-230.toml").read_text()
@@ -218,7 +219,7 @@ def test_monte_carlo_reproducible_and_bounded() -> None:
 def test_sheet_numbers_equal_check(name: str) -> None:
     d = parse_design((DESIGNS / f"{name}.toml").read_text())
     ans = check(d)
-    page = html.unescape(render(d, ans, study(d, samples=200)))
+    page = html.unescape(sheet_html(build_sheet(d, ans, study(d, samples=200))))
     if not d.is_cv:
         for _, key, kind in OPERATING_ROWS:
             for corner in ("low", "nominal", "high"):
@@ -231,7 +232,7 @@ def test_sheet_numbers_equal_check(name: str) -> None:
 
 def test_sheet_escapes_design_text() -> None:
     d = parse_design(BASE.replace('name = "KR flood panel 230"', 'name = "<script>alert(1)</script>"'))
-    page = render(d, check(d), None)
+    page = sheet_html(build_sheet(d, check(d), None))
     assert "<script>alert" not in page and "&lt;script&gt;" in page
 
 

@@ -8,7 +8,8 @@ from .errors import CalcError, InputError, InputErrors, NoSolutionError
 from .fixture.check import check
 from .fixture.design import parse_design
 from .fixture.tolerance import study
-from .present.sheet import render
+from .present.html import sheet_html
+from .present.sheet import build_sheet
 
 
 def handle(kind: str, req: dict[str, Any]) -> dict[str, Any]:
@@ -23,7 +24,7 @@ def handle(kind: str, req: dict[str, Any]) -> dict[str, Any]:
             d = parse_design(str(req.get("toml", "")))
             ans = check(d, waveforms=True)
             st = study(d)
-            return {"ok": True, "name": d.name, "html": render(d, ans, st), "failed": ans["failed"]}
+            return {"ok": True, "name": d.name, "html": sheet_html(build_sheet(d, ans, st)), "failed": ans["failed"]}
         if kind in ("design_schema", "design_doc", "design_toml", "plan"):
             return {"ok": True, **_workbench(kind, req)}
         raise InputError(
