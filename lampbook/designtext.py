@@ -11,7 +11,7 @@ from collections.abc import Mapping
 from typing import Any
 
 from lampcalc.present.model import BREAK, Block, Caution, Paragraph, Sheet, Span, Table, status, text, words
-from lampcalc.present.sheet import operating_table
+from lampcalc.present.sheet import operating_table, outcome_status
 from lampcalc.quantities.units import format_value
 
 from .report import sheet_text
@@ -58,7 +58,7 @@ def check_report(ans: Mapping[str, Any]) -> str:
                 tuple(
                     (
                         words(f["id"]),
-                        status(f["outcome"].upper(), "fail" if f["outcome"] == "hazard" else "pass"),
+                        status(f["outcome"].upper(), outcome_status(f["outcome"])),
                         words(f"clears within {f['fuse_time_s']:.3g} s" if f["fuse_clears"] else "does not clear"),
                         words(", ".join(o["check"] for o in f["over_rating"]) or "-"),
                         words(", ".join(f["leads_to"]) or "-"),

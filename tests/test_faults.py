@@ -148,6 +148,12 @@ def test_a_fault_the_solver_cannot_follow_is_not_analysed_not_dark() -> None:
     c = _faults_single(ans)
     assert c["status"] in ("warn", "fail") and "smoothing.open" in c["message"]
     assert "could not be analysed" in c["message"]
+    # the build sheet shows it as a warning, not a pass
+    from lampcalc.present.html import sheet_html
+    from lampcalc.present.sheet import build_sheet
+
+    html = sheet_html(build_sheet(parse_design((HERE / "chatter.toml").read_text()), ans, None))
+    assert '<span class="lb-st lb-warn">UNANALYSED</span>' in html
 
 
 def test_unsafe_demo_dropper_short_bursts_before_the_fuse() -> None:

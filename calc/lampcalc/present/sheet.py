@@ -15,7 +15,7 @@ from typing import Any
 
 from ..cautions import UNVERIFIED_NOTE, citation, daggered
 from ..fixture.design import Design
-from ..fixture.rules import RULES
+from ..fixture.rules import FAIL, PASS, RULES, WARN, Status
 from ..physics import wire as wr
 from ..physics.harmonic_limits import RULES as HARMONIC_RULES
 from ..quantities.units import format_value as fv
@@ -71,6 +71,12 @@ CV_ROWS: tuple[tuple[str, str, str], ...] = (
     ("Input power", "input_power_W", "power"),
     ("Efficiency", "efficiency", "ratio"),
 )
+
+
+def outcome_status(outcome: str) -> Status:
+    """How a single fault's outcome is shown: a hazard as a failure, a fault the
+    analysis could not follow as a warning, a safe end as a pass."""
+    return FAIL if outcome == "hazard" else (WARN if outcome == "unanalysed" else PASS)
 
 
 def cell(v: Any, kind: str) -> str:
@@ -146,7 +152,7 @@ def fault_table(ans: dict[str, Any]) -> Table:
         rows.append(
             (
                 words(code(f["id"]), BREAK, f["description"]),
-                status(f["outcome"].upper(), "fail" if f["outcome"] == "hazard" else "pass"),
+                status(f["outcome"].upper(), outcome_status(f["outcome"])),
                 words(fuse),
                 words(over or "nothing over its rating", *((BREAK, notes) if notes else ())),
                 words(" → ".join(f["leads_to"]) or "—"),
