@@ -172,6 +172,23 @@ def test_design_folder_becomes_sheet_pages(tmp_path: Path) -> None:
     page = (folder / "site" / "designs" / "panel-230" / "index.html").read_text()
     assert "Operating table" in page and "Bill of materials" in page and "<svg" in page and "dropper.ac_rating" in page
     assert (folder / "site" / "designs" / "panel-24v" / "index.html").is_file()
+    # the written page has the whole body; the search index has the sheet's words without its tables
+    assert "data-lb-sheet-start" not in page and "data-lb-sheet-end" not in page
+    index = json.loads((folder / "site" / "search" / "search_index.json").read_text())
+    sheet_docs = [d for d in index["docs"] if d["location"].startswith("designs/panel-230/")]
+    text = " ".join(d["title"] + " " + d["text"] for d in sheet_docs)
+    assert "Operating table" in text and "Bill of materials" in text  # the headings are searchable
+    assert "dropper.ac_rating" in text  # the checks list (words, not a table) is searchable
+    # no table's cells and no drawing's labels: words found only inside a table or a figure are not indexed
+    outside = re.sub(r"<(table|figure)\b.*?</\1>", "", page, flags=re.S)
+    only_inside = {
+        w
+        for m in re.findall(r"<(?:td|th|text)\b[^>]*>([^<]{6,})<", page)
+        for w in [m.strip()]
+        if w and w not in outside
+    }
+    assert len(only_inside) > 20
+    assert not [w for w in only_inside if w in text]
     # a broken design fails the build, naming the file and the key
     (folder / "docs" / "designs" / "broken.toml").write_text(
         'name = "b"\n[supply]\nkind = "cv"\nvoltage = "24"\n[module]\n'

@@ -4,6 +4,7 @@ in :mod:`lampbook.bundle`."""
 from __future__ import annotations
 
 import json
+import re
 import shutil
 from pathlib import Path
 
@@ -39,6 +40,17 @@ _EARLY_START = (
     'new URL(WORKER,location.href),{type:"module"});w.onmessage=function(e){q.push(e)};'
     "w.onerror=function(e){q.push(e)};window.lbEngine={worker:w,queue:q}})()}</script>"
 )
+
+
+#: where a sheet's searchable text sits in the page until the whole body replaces it
+BODY_START = '<span hidden data-lb-sheet-start=""></span>'
+BODY_END = '<span hidden data-lb-sheet-end=""></span>'
+_UNSEARCHED = re.compile(r"<(svg|table|figure)\b.*?</\1>", re.S)
+
+
+def _searchable(body: str) -> str:
+    """A sheet body's headings, cautions, verdict and notes: its tables and figures left out."""
+    return _UNSEARCHED.sub("", body)
 
 
 class LampbookPlugin(BasePlugin[LampbookConfig]):  # type: ignore[no-untyped-call]  # as above
@@ -158,11 +170,21 @@ class LampbookPlugin(BasePlugin[LampbookConfig]):  # type: ignore[no-untyped-cal
         sheet = self._sheets.get(page.file.src_uri) if self.config.enabled else None
         if sheet is None or SHEET_SLOT not in html:
             return html
-        return html.replace(SHEET_SLOT, sheet[2], 1)
+        # the search index reads the page's content next: it gets the sheet's words without its tables and
+        # drawings (hundreds of sheets index in a second, and the index a phone downloads stays small); the
+        # whole body goes into the written page in on_post_page
+        return html.replace(SHEET_SLOT, BODY_START + _searchable(sheet[2]) + BODY_END, 1)
 
     def on_post_page(self, output: str, /, *, page: Page, config: MkDocsConfig) -> str:
         if not self.config.enabled:
             return output
+        sheet = self._sheets.get(page.file.src_uri)
+        if sheet is not None and BODY_START in output:
+            i = output.index(BODY_START)
+            j = output.find(BODY_END, i)
+            if j < 0:
+                raise PluginError(f"lampbook: {page.file.src_uri}: the sheet's body was cut by another plugin")
+            output = output[:i] + sheet[2] + output[j + len(BODY_END) :]
         base = get_relative_url(".", page.url).rstrip("/") + "/"
         site_json = json.dumps({"root": base, "timeout": self.config.load_timeout, "engine": self.config.engine})
         meta = (
