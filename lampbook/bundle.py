@@ -6,6 +6,7 @@ precaches."""
 from __future__ import annotations
 
 import base64
+import functools
 import hashlib
 import importlib.metadata
 import json
@@ -371,6 +372,7 @@ def _wheel_modules(wheel: Path) -> list[str]:
     return sorted(n[:-3].replace("/", ".").removesuffix(".__init__") for n in names)
 
 
+@functools.lru_cache(maxsize=4096)
 def design_shape(text: str) -> str:
     """A design file's shape: every key path it sets with the type of its value
     (the code paths a review takes follow the tables and keys a file uses and the
