@@ -285,6 +285,10 @@ def main() -> None:
     from catalogue import lines as catalogue_lines
 
     catalogue = bench_catalogue()
+    from workbench import bench_workbench
+    from workbench import lines as workbench_lines
+
+    workbench = bench_workbench()
     data = {
         "machine": {"python": sys.version.split()[0], "cpus": os.cpu_count()},
         "calculators": calcs,
@@ -295,6 +299,7 @@ def main() -> None:
         "review": review,
         "engine": engine,
         "catalogue": catalogue,
+        "workbench": workbench,
         "sweep": design_sweep,
     }
     (ROOT / "bench" / "results.json").write_text(json.dumps(data, indent=1, sort_keys=True))
@@ -370,6 +375,7 @@ def main() -> None:
     lines += review_lines(review)
     lines += report_lines(engine)
     lines += ["", *catalogue_lines(catalogue)]
+    lines += ["", *workbench_lines(workbench)]
     from sweep import markdown
 
     lines += markdown(design_sweep)
