@@ -67,12 +67,15 @@ def write_handbook(folder: Path, n: int, jobs: int = 0) -> Path:
     write_designs(docs / "designs", n)
     cache = folder / "cache"
     cache.mkdir()
-    # the byte-compiled standard library and the measurement of what the engine uses of it are one-time
-    # products of the core's version (the measurement also of the design shapes, which these variants share
-    # with the demo handbook's designs); the review cache starts empty
+    # the byte-compiled standard library, the measurement of what the engine uses of it and the compressed
+    # siblings of the runtime's files (kept by content digest) are one-time products of the core's and the
+    # runtime's versions (the measurement also of the design shapes, which these variants share with the demo
+    # handbook's designs), there after any earlier build on the machine; the review cache starts empty
     for pattern in ("python_stdlib-*.zip", "stdlib-usage-*.json"):
         for p in (ROOT / ".cache" / "lampbook").glob(pattern):
             shutil.copyfile(p, cache / p.name)
+    if (ROOT / ".cache" / "lampbook" / "compressed").is_dir():
+        shutil.copytree(ROOT / ".cache" / "lampbook" / "compressed", cache / "compressed")
     (folder / "mkdocs.yml").write_text(
         "site_name: Bench shop\n"
         "theme:\n  name: material\n  font: false\n"
@@ -218,9 +221,10 @@ def lines(res: dict[str, object]) -> list[str]:
         "## A handbook that grows: many designs (catalogue)",
         "",
         "Handbooks of invented variants of the demo designs, built with `mkdocs build --strict` in a fresh process",
-        "(engine bundled; the compiled standard library and its usage measurement already cached, as after any",
-        "build of the same core). Cold: empty review cache. One edit: one design file changed. Reviews run in as",
-        "many worker processes as the machine has cores. The machine was shared",
+        "(engine bundled; the compiled standard library, its usage measurement and the runtime's compressed",
+        "siblings already cached, as after any build of the same core and runtime). Cold: empty review cache.",
+        "One edit: one design file changed. Reviews run in as many worker processes as the machine has cores.",
+        "The machine was shared",
         f"with other engineers' work during the run (load average {res['load_before']} before, "
         f"{res['load_after']} after, on {par['jobs']} cores).",  # type: ignore[index]
         "",
