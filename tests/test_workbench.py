@@ -44,6 +44,7 @@ def page(site: Server) -> Iterator[object]:
         errors: list[str] = []
         pg.on("pageerror", lambda e: errors.append(str(e)))
         pg.base = site.url  # type: ignore[attr-defined]
+        pg.errors = errors  # type: ignore[attr-defined]
         yield pg
         assert not errors, errors
         assert not foreign, foreign
@@ -205,6 +206,11 @@ def test_engine_stopping_mid_review_keeps_the_form(page: object) -> None:
     page.click(".lb-bench-save")  # type: ignore[attr-defined]
     page.wait_for_function("document.querySelector('.lb-bench-note').textContent.includes('engine stopped')")  # type: ignore[attr-defined]
     assert field(page, "dropper", "bleeder").input_value() == "150 kΩ"
+    # the worker's own uncaught error is the crash this test makes; nothing else may reach the page (the
+    # rejected request, unhandled, used to)
+    assert page.errors == ["simulated crash"], page.errors  # type: ignore[attr-defined]
+    page.errors.clear()  # type: ignore[attr-defined]
+    (ROOT / "test-artifacts").mkdir(exist_ok=True)
     note.screenshot(path=str(ROOT / "test-artifacts" / "workbench-engine-stopped.png"))
     page.screenshot(path=str(ROOT / "test-artifacts" / "workbench-engine-stopped-page.png"))  # type: ignore[attr-defined]
 
