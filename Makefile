@@ -54,6 +54,9 @@ lint: $(DEPS) $(NODE)
 	$(BIN)/ruff format --check calc lampbook tests bench
 	$(BIN)/mypy
 	node_modules/.bin/eslint --max-warnings 0 .
+	$(BIN)/python -m lampbook.protocoltypes --check
+	node_modules/.bin/tsc --noEmit -p .
+	node_modules/.bin/tsc --noEmit -p tsconfig.worker.json
 
 test: $(DEPS) $(NODE) $(SYSTEM) $(WHEELS) lint
 	$(BIN)/python -m pytest

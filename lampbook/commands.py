@@ -6,6 +6,7 @@ import argparse
 import json
 import os
 import sys
+from collections.abc import Mapping, Sequence
 from pathlib import Path
 from typing import Any
 
@@ -37,14 +38,14 @@ def _read(path: str) -> str | None:
         return None
 
 
-def _errors(errs: list[dict[str, str]], prefix: str) -> int:
+def _errors(errs: Sequence[Mapping[str, object]], prefix: str) -> int:
     for e in errs:
         print(f"{prefix}: {e['message']}", file=sys.stderr)
     return 2
 
 
 def run_check(args: argparse.Namespace) -> int:
-    from lampcalc.design_api import handle
+    from lampcalc.design_api import review
 
     if len(args.design) > 1 or os.path.isdir(args.design[0]):
         return run_check_set(args)
@@ -52,27 +53,27 @@ def run_check(args: argparse.Namespace) -> int:
     text = _read(args.design)
     if text is None:
         return 2
-    ans = handle("check", {"toml": text, "waveforms": args.waveforms})
-    if not ans["ok"]:
+    ans = review(text, waveforms=args.waveforms)
+    if ans["ok"] is False:
         rc = _errors(ans["errors"], f"lampbook check {args.design}")
         # a valid design with no periodic steady state is a finding about the design (exit 1),
         # not bad input (exit 2)
         solver = all(not e.get("field") and e["message"].startswith("steady state did not") for e in ans["errors"])
         return 1 if solver else rc
-    ans.pop("ok")
+    body = {k: v for k, v in ans.items() if k != "ok"}
     if args.json:
         from lampcalc.api import dumps
 
-        print(dumps(ans, indent=2, sort_keys=True, ensure_ascii=False))
+        print(dumps(body, indent=2, sort_keys=True, ensure_ascii=False))
     else:
         from .designtext import check_report
         from .report import full_width
 
         if args.wide:
             with full_width():
-                print(check_report(ans))
+                print(check_report(body))
         else:
-            print(_fit(check_report(ans)))
+            print(_fit(check_report(body)))
     return 1 if ans["failed"] else 0
 
 

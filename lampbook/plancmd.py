@@ -5,6 +5,7 @@ from __future__ import annotations
 import argparse
 import json
 import sys
+from collections.abc import Mapping, Sequence
 from pathlib import Path
 from typing import Any
 
@@ -12,7 +13,7 @@ from .atomic import write_atomic
 from .report import bullets, table
 
 
-def _fail(prefix: str, errors: list[dict[str, str]]) -> int:
+def _fail(prefix: str, errors: Sequence[Mapping[str, object]]) -> int:
     for e in errors:
         print(f"{prefix}: {e['message']}", file=sys.stderr)
     return 2

@@ -44,6 +44,7 @@ def page(site: Server) -> Iterator[object]:
         errors: list[str] = []
         pg.on("pageerror", lambda e: errors.append(str(e)))
         pg.base = site.url  # type: ignore[attr-defined]
+        pg.errors = errors  # type: ignore[attr-defined]
         yield pg
         assert not errors, errors
         assert not foreign, foreign
@@ -164,3 +165,65 @@ def test_workbench_offline_after_one_visit(page: object) -> None:
     page.context.set_offline(True)  # type: ignore[attr-defined]
     open_demo(page, 1)
     assert "LED" in pinned(page)
+
+
+def _engine_worker(pg: object) -> object:
+    pg.wait_for_function("document.querySelector('.lb-engine')?.dataset.state?.startsWith('ready')")  # type: ignore[attr-defined]
+    engines = [w for w in pg.workers if w.url.endswith("/assets/lampbook/worker.js")]  # type: ignore[attr-defined]
+    assert len(engines) == 1, [w.url for w in pg.workers]  # type: ignore[attr-defined]
+    return engines[0]
+
+
+def test_engine_stopping_mid_review_keeps_the_form(page: object) -> None:
+    """The engine dies with the review's request in flight (the worker swallows it, then an uncaught error kills
+    the engine as a crash would): the workbench says the engine stopped beside the form, throws nothing at the
+    page, and every value the user typed, the last one included, is still in the form."""
+    open_demo(page)
+    worker = _engine_worker(page)
+    before = page.evaluate(  # type: ignore[attr-defined]
+        "[...document.querySelectorAll('.lb-bench-form input')].map((i) => i.value)"
+    )
+    worker.evaluate("() => { self.onmessage = () => {}; }")  # type: ignore[attr-defined]  # requests now hang
+    field(page, "dropper", "bleeder").fill("150 kΩ")
+    page.wait_for_timeout(900)  # type: ignore[attr-defined]  # the review's request is sent (350 ms) and waits
+    worker.evaluate("() => { setTimeout(() => { throw new Error('simulated crash'); }); }")  # type: ignore[attr-defined]
+    note = page.locator(".lb-bench-engine")  # type: ignore[attr-defined]
+    note.wait_for(state="visible", timeout=30000)
+    text = note.inner_text()
+    assert "engine stopped" in text.lower() and "simulated crash" in text and "entries" in text
+    assert "engine stopped" in pinned(page)
+    after = page.evaluate(  # type: ignore[attr-defined]
+        "[...document.querySelectorAll('.lb-bench-form input')].map((i) => i.value)"
+    )
+    keys = page.evaluate(  # type: ignore[attr-defined]
+        "[...document.querySelectorAll('.lb-bench-form .lb-field')]"
+        ".map((f) => (f.dataset.wire ?? '') + f.dataset.table + '.' + f.dataset.key)"
+    )
+    edited = keys.index("dropper.bleeder")
+    assert after[edited] == "150 kΩ"
+    assert [v for i, v in enumerate(after) if i != edited] == [v for i, v in enumerate(before) if i != edited]
+    # asking again (save) with the engine gone says so and still loses nothing
+    page.click(".lb-bench-save")  # type: ignore[attr-defined]
+    page.wait_for_function("document.querySelector('.lb-bench-note').textContent.includes('engine stopped')")  # type: ignore[attr-defined]
+    assert field(page, "dropper", "bleeder").input_value() == "150 kΩ"
+    # the worker's own uncaught error is the crash this test makes; nothing else may reach the page (the
+    # rejected request, unhandled, used to)
+    assert page.errors == ["simulated crash"], page.errors  # type: ignore[attr-defined]
+    page.errors.clear()  # type: ignore[attr-defined]
+    (ROOT / "test-artifacts").mkdir(exist_ok=True)
+    note.screenshot(path=str(ROOT / "test-artifacts" / "workbench-engine-stopped.png"))
+    page.screenshot(path=str(ROOT / "test-artifacts" / "workbench-engine-stopped-page.png"))  # type: ignore[attr-defined]
+
+
+def test_plan_with_no_passing_arrangement_says_why(page: object) -> None:
+    """A plan the review fails for every arrangement is an answer: the page says why (the constraint), where it
+    used to look for errors in an answer that had none."""
+    open_demo(page)
+    page.locator(".lb-bench-plan summary").click()  # type: ignore[attr-defined]
+    page.fill(".lb-bench-plan [name=modules]", "400")  # type: ignore[attr-defined]
+    page.click(".lb-bench-run-plan")  # type: ignore[attr-defined]
+    out = page.locator(".lb-bench-plan-out")  # type: ignore[attr-defined]
+    page.wait_for_function(  # type: ignore[attr-defined]
+        "!document.querySelector('.lb-bench-plan-out').textContent.includes('planning')", timeout=120000
+    )
+    assert "no design: no arrangement passes the review" in out.inner_text()

@@ -10,14 +10,15 @@ from __future__ import annotations
 import json
 import math
 from collections.abc import Mapping
-from typing import Any
+from typing import Any, cast
 
 from .calculators import CALCULATORS, get
 from .errors import CalcError, InputError, InputErrors, NoSolutionError
-from .schema import describe, evaluate, region_presets, to_json
+from .protocol import ComputeAnswer, DescribeAnswer, ErrorItem, Refusal, SweepAnswer
+from .schema import describe, evaluate, region_presets, sweep, to_json
 
 
-def _errors(e: CalcError) -> list[dict[str, str]]:
+def _errors(e: CalcError) -> list[ErrorItem]:
     if isinstance(e, InputErrors):
         return [x.as_dict() for x in e.errors]
     if isinstance(e, (InputError, NoSolutionError)):
@@ -26,6 +27,12 @@ def _errors(e: CalcError) -> list[dict[str, str]]:
 
 
 def compute(name: str, inputs: Mapping[str, object]) -> dict[str, Any]:
+    """:func:`answer` as a plain dict, for the build-time callers that read it as one."""
+    return cast(dict[str, Any], answer(name, inputs))
+
+
+def answer(name: str, inputs: Mapping[str, object]) -> ComputeAnswer | Refusal:
+    """A compute request's answer."""
     try:
         calc = get(name)
         return to_json(calc, evaluate(calc, inputs))
@@ -33,15 +40,31 @@ def compute(name: str, inputs: Mapping[str, object]) -> dict[str, Any]:
         return {"calculator": name, "ok": False, "errors": _errors(e)}
 
 
+def plot_points(name: str, plot: str, inputs: Mapping[str, object]) -> SweepAnswer | Refusal:
+    """The points of a calculator's plot in one request (see :func:`lampcalc.schema.sweep`)."""
+    try:
+        calc = get(name)
+        centre, points = sweep(calc, plot, inputs)
+    except CalcError as e:
+        return {"calculator": name, "ok": False, "errors": _errors(e)}
+    return {"ok": True, "calculator": name, "plot": plot, "centre": centre, "points": points}
+
+
+def describe_all() -> DescribeAnswer:
+    return {"ok": True, "calculators": [describe(c) for c in CALCULATORS.values()], "regions": region_presets()}
+
+
 #: Largest request read (characters) and deepest nesting of arrays and objects.
 MAX_REQUEST = 2_000_000
 MAX_DEPTH = 64
 
 
+def refusal(field: str, value: str, expected: str, message: str) -> Refusal:
+    return {"ok": False, "errors": [{"field": field, "value": value, "expected": expected, "message": message}]}
+
+
 def _refusal(field: str, value: str, expected: str, message: str) -> str:
-    return json.dumps(
-        {"ok": False, "errors": [{"field": field, "value": value, "expected": expected, "message": message}]}
-    )
+    return json.dumps(refusal(field, value, expected, message))
 
 
 def _too_deep(text: str) -> bool:
@@ -83,7 +106,7 @@ def finite_json(obj: Any, path: str = "", found: list[str] | None = None) -> Any
     return obj
 
 
-def dumps(obj: dict[str, Any], **kw: Any) -> str:
+def dumps(obj: Mapping[str, Any], **kw: Any) -> str:
     """Strict JSON: an unbounded or undefined number becomes null, and its path
     is listed under "unbounded" with a note saying what null means there."""
     found: list[str] = []
@@ -101,7 +124,9 @@ def dumps(obj: dict[str, Any], **kw: Any) -> str:
 
 def handle(text: str) -> str:
     """Request kinds: {"kind": "compute", "calculator": ..., "inputs": {...}},
-    {"kind": "describe"} and the design kinds of :mod:`lampcalc.design_api`."""
+    {"kind": "sweep", "calculator": ..., "plot": ..., "inputs": {...}},
+    {"kind": "describe"} and the design kinds of :mod:`lampcalc.design_api`.
+    :mod:`lampcalc.protocol` declares every request and answer."""
     if not isinstance(text, str):
         return _refusal("request", type(text).__name__, "JSON text", "request must be JSON text")
     if len(text) > MAX_REQUEST:
@@ -127,41 +152,20 @@ def _handle(text: str) -> str:
     try:
         req = json.loads(text, parse_constant=_no_constant)
     except ValueError as e:
-        return json.dumps(
-            {
-                "ok": False,
-                "errors": [{"field": "request", "value": text[:80], "expected": "JSON", "message": str(e)}],
-            }
-        )
+        return json.dumps(refusal("request", text[:80], "JSON", str(e)))
     if not isinstance(req, dict):
-        return json.dumps(
-            {
-                "ok": False,
-                "errors": [
-                    {
-                        "field": "request",
-                        "value": str(req)[:80],
-                        "expected": "a JSON object",
-                        "message": "request must be an object",
-                    }
-                ],
-            }
-        )
+        return json.dumps(refusal("request", str(req)[:80], "a JSON object", "request must be an object"))
     kind = req.get("kind", "compute")
     if kind == "describe":
-        return dumps(
-            {
-                "ok": True,
-                "calculators": [describe(c) for c in CALCULATORS.values()],
-                "regions": region_presets(),
-            },
-            sort_keys=True,
-        )
-    if kind == "compute":
+        return dumps(describe_all(), sort_keys=True)
+    if kind in ("compute", "sweep"):
         inputs = req.get("inputs", {})
         if not isinstance(inputs, dict):
             inputs = {}
-        return dumps(compute(str(req.get("calculator", "")), inputs), sort_keys=True)
+        name = str(req.get("calculator", ""))
+        if kind == "sweep":
+            return dumps(plot_points(name, str(req.get("plot", "")), inputs), sort_keys=True)
+        return dumps(answer(name, inputs), sort_keys=True)
     from . import design_api
 
     bad = _study_options(req)
@@ -182,19 +186,7 @@ def _study_options(req: Mapping[str, Any]) -> str | None:
         if isinstance(x, bool) or not isinstance(x, int) or not lo <= x <= hi:
             shown = str(x)[:40]
             expected = f"a whole number from {lo} to {hi}"
-            return dumps(
-                {
-                    "ok": False,
-                    "errors": [
-                        {
-                            "field": name,
-                            "value": shown,
-                            "expected": expected,
-                            "message": f"{name}: got {shown}; expected {expected}",
-                        }
-                    ],
-                }
-            )
+            return dumps(refusal(name, shown, expected, f"{name}: got {shown}; expected {expected}"))
     return None
 
 

@@ -16,7 +16,7 @@ from .physics.led import DEFAULT_TEMPCO, LedModule
 from .quantities.eseries import SERIES, next_down, preferred
 from .quantities.regions import PRESETS
 from .quantities.units import DIMENSIONS, format_value, parse
-from .schema import Calculator, Output, Param, Result, Value
+from .schema import Calculator, Output, Param, Result, Sweep, Value
 
 V = Mapping[str, Value]
 
@@ -846,7 +846,18 @@ DROPPER = Calculator(
         Output("capacitance", "C", "capacitance"),
         Output("led_current_avg", "LED current", "current"),
     ),
-    plots=("current_vs_mains",),
+    plots=(
+        Sweep(
+            "current_vs_mains",
+            "mains_voltage",
+            "led_current_avg",
+            "LED current against mains voltage",
+            "Mains voltage",
+            "LED current",
+            0.85,
+            1.15,
+        ),
+    ),
     main=("led_current_avg", "led_current_low", "led_current_high"),
     secondary=(
         "mains_voltage",
@@ -972,7 +983,19 @@ RIPPLE = Calculator(
     ),
     _ripple,
     mains=True,
-    plots=("ripple_vs_capacitance",),
+    plots=(
+        Sweep(
+            "ripple_vs_capacitance",
+            "capacitance",
+            "ripple_pp",
+            "Bus ripple against smoothing capacitance",
+            "Smoothing capacitance",
+            "Bus ripple, peak to peak",
+            0.25,
+            4.0,
+            log=True,
+        ),
+    ),
     main=("ripple_pp", "percent_flicker", "flicker_band"),
     secondary=("r_dynamic", "ballast", "bus_voltage", "target_ripple"),
 )

@@ -7,6 +7,8 @@ all say the same thing in the same words.
 
 from __future__ import annotations
 
+from .protocol import ErrorItem
+
 
 def printable(value: object, limit: int = 60) -> str:
     """A value as a message shows it: on one line, control characters escaped,
@@ -37,7 +39,7 @@ class InputError(CalcError, ValueError):
         shown = self.value if isinstance(self.value, str) and self.value.strip() else repr(self.value)
         return f"{self.field}: got {printable(shown)}; expected {self.expected}"
 
-    def as_dict(self) -> dict[str, str]:
+    def as_dict(self) -> ErrorItem:
         return {
             "field": self.field,
             "value": str(self.value),
@@ -72,7 +74,7 @@ class NoSolutionError(CalcError, ValueError):
         self.why = why
         super().__init__(f"{why} ({field} = {value}; {expected})")
 
-    def as_dict(self) -> dict[str, str]:
+    def as_dict(self) -> ErrorItem:
         return {
             "field": self.field,
             "value": str(self.value),

@@ -15,7 +15,8 @@ from dataclasses import dataclass, replace
 
 from . import cautions
 from .cautions import UNVERIFIED_NOTE, daggered
-from .errors import InputError, InputErrors
+from .errors import CalcError, InputError, InputErrors
+from .protocol import CalculatorDecl, ComputeAnswer, RegionPreset, SweepDecl
 from .quantities.regions import PRESETS
 from .quantities.units import dimension, format_value, parse
 
@@ -55,6 +56,31 @@ class Output:
 
 
 @dataclass(frozen=True)
+class Sweep:
+    """A plot the page may draw: ``output`` against the input ``param`` swept from
+    ``low`` to ``high`` times the value in the form, in ``points`` steps (evenly on
+    a log scale when ``log``). The core computes the points (``{"kind": "sweep"}``);
+    the page only draws them, with the value axis from zero."""
+
+    name: str
+    param: str
+    output: str
+    label: str  # the figure's caption
+    x_title: str
+    y_title: str
+    low: float
+    high: float
+    log: bool = False
+    points: int = 17
+
+    def factors(self) -> list[float]:
+        n = self.points - 1
+        if self.log:
+            return [self.low * (self.high / self.low) ** (k / n) for k in range(n + 1)]
+        return [self.low + (self.high - self.low) * k / n for k in range(n + 1)]
+
+
+@dataclass(frozen=True)
 class Result:
     values: Mapping[str, Value]
     rows: tuple[Mapping[str, Value], ...] = ()
@@ -79,7 +105,7 @@ class Calculator:
     mains: bool = False
     mode: str | None = None  # name of the param that picks a mode
     columns: tuple[Output, ...] = ()  # the table of options, if any
-    plots: tuple[str, ...] = ()  # names of sweeps the page may draw
+    plots: tuple[Sweep, ...] = ()  # the sweeps the page may draw
     mains_modes: tuple[str, ...] = ()  # values of the mode param that put the result on the mains
     main: tuple[str, ...] = ()  # presentation: the outputs a user came for, kept in view in the page
     secondary: tuple[str, ...] = ()  # presentation: inputs folded under a summary of their values in the page
@@ -88,6 +114,12 @@ class Calculator:
         for p in self.params:
             if p.name == name:
                 return p
+        raise KeyError(name)
+
+    def output(self, name: str) -> Output:
+        for o in self.outputs:
+            if o.name == name:
+                return o
         raise KeyError(name)
 
     @property
@@ -204,7 +236,7 @@ def format_output(o: Output, v: Value, digits: int | None = 4) -> str:
     return format_value(float(v), o.dim, digits)
 
 
-def to_json(calc: Calculator, result: Result) -> dict[str, object]:
+def to_json(calc: Calculator, result: Result) -> ComputeAnswer:
     """The JSON shape every front end reads: raw SI values, the same values
     formatted for reading, the option table, notes, warnings and cautions."""
 
@@ -265,7 +297,52 @@ def to_json(calc: Calculator, result: Result) -> dict[str, object]:
     }
 
 
-def describe(calc: Calculator) -> dict[str, object]:
+def sweep(calc: Calculator, plot: str, raw: Mapping[str, object]) -> tuple[float, list[tuple[float, float]]]:
+    """The points of the calculator's sweep ``plot`` about the inputs ``raw``: the
+    swept input's value (SI) and the (input, output) pairs that have an answer.
+    Raises the input errors of ``raw`` itself; a point the calculator refuses
+    (out of an input's limits, no solution) is left out, as is one with no value."""
+    s = next((x for x in calc.plots if x.name == plot), None)
+    if s is None:
+        names = ", ".join(x.name for x in calc.plots)
+        raise InputError(
+            "plot", plot, f"one of {names}" if names else f"a calculator with a plot ({calc.name} has none)"
+        )
+    param = calc.param(s.param)
+    centre = parse_inputs(calc, raw).get(s.param)
+    if not isinstance(centre, float) or centre == 0:
+        return 0.0, []
+    unit = dimension(param.dim).symbol
+    points = []
+    for f in s.factors():
+        x = centre * f
+        try:
+            y = evaluate(calc, {**raw, s.param: f"{x!r} {unit}"}).values.get(s.output)
+        except CalcError:
+            continue
+        if isinstance(y, (int, float)) and math.isfinite(y):
+            points.append((x, float(y)))
+    return centre, points
+
+
+def _sweep_json(calc: Calculator, s: Sweep) -> SweepDecl:
+    return {
+        "name": s.name,
+        "param": s.param,
+        "output": s.output,
+        "label": s.label,
+        "x_title": s.x_title,
+        "y_title": s.y_title,
+        "x_unit": dimension(calc.param(s.param).dim).symbol,
+        "y_unit": dimension(calc.output(s.output).dim).symbol,
+        "low": s.low,
+        "high": s.high,
+        "log": s.log,
+        "points": s.points,
+    }
+
+
+def describe(calc: Calculator) -> CalculatorDecl:
     """The declaration as JSON, for the page form and the docs table."""
     return {
         "name": calc.name,
@@ -297,12 +374,12 @@ def describe(calc: Calculator) -> dict[str, object]:
             for o in calc.outputs
         ],
         "columns": [{"name": o.name, "label": o.label, "dim": o.dim} for o in calc.columns],
-        "plots": list(calc.plots),
+        "plots": [_sweep_json(calc, s) for s in calc.plots],
         "main": list(calc.main),
     }
 
 
-def region_presets() -> dict[str, dict[str, object]]:
+def region_presets() -> dict[str, RegionPreset]:
     return {
         k: {
             "voltage": format_value(p.voltage, "voltage"),

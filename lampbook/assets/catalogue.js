@@ -1,3 +1,4 @@
+// @ts-check
 // lampbook fixtures index: filter and sort the table of designs in the page.
 // A classic script (no modules, no fetch), so it also works from files with no server.
 // The rows carry their figures as data- attributes; the table is complete without this script.
@@ -5,34 +6,51 @@
 (function () {
   "use strict";
 
+  /** @param {Element} row @param {string} key @returns {number | null} */
   function num(row, key) {
     const v = row.getAttribute("data-" + key);
     return v === null || v === "" ? null : Number(v);
   }
 
+  /** @param {Element} row */
+  function nameOf(row) {
+    return row.getAttribute("data-name") || "";
+  }
+
+  /** @param {string} key @returns {(a: Element, b: Element) => number} */
   function compare(key) {
     return function (a, b) {
-      if (key === "name") return a.getAttribute("data-name").localeCompare(b.getAttribute("data-name"));
+      if (key === "name") return nameOf(a).localeCompare(nameOf(b));
       const x = num(a, key === "verdict" ? "rank" : key);
       const y = num(b, key === "verdict" ? "rank" : key);
-      if (x === y) return a.getAttribute("data-name").localeCompare(b.getAttribute("data-name"));
+      if (x === y) return nameOf(a).localeCompare(nameOf(b));
       if (x === null) return 1; // designs without the figure go last either way
       if (y === null) return -1;
       return x - y;
     };
   }
 
+  /**
+   * The element the index page's markup always has under box (lampbook/fixtureindex.py writes it).
+   * @param {HTMLElement} box @param {string} selector @returns {HTMLElement}
+   */
+  function part(box, selector) {
+    return /** @type {HTMLElement} */ (box.querySelector(selector));
+  }
+
+  /** @param {HTMLElement} box */
   function setup(box) {
     if (box.dataset.ready) return;
     box.dataset.ready = "1";
-    const controls = box.querySelector(".lb-fx-controls");
-    const find = box.querySelector(".lb-fx-find input");
-    const verdict = box.querySelector(".lb-fx-verdict");
-    const sort = box.querySelector(".lb-fx-sort");
-    const dir = box.querySelector(".lb-fx-dir");
-    const shown = box.querySelector(".lb-fx-shown");
-    const none = box.querySelector(".lb-fx-none");
-    const body = box.querySelector("tbody");
+    const controls = part(box, ".lb-fx-controls");
+    const find = /** @type {HTMLInputElement} */ (part(box, ".lb-fx-find input"));
+    const verdict = /** @type {HTMLSelectElement} */ (part(box, ".lb-fx-verdict"));
+    const sort = /** @type {HTMLSelectElement} */ (part(box, ".lb-fx-sort"));
+    const dir = part(box, ".lb-fx-dir");
+    const shown = part(box, ".lb-fx-shown");
+    const none = part(box, ".lb-fx-none");
+    const body = /** @type {HTMLTableSectionElement} */ (part(box, "tbody"));
+    /** @type {HTMLTableRowElement[]} */
     const rows = Array.prototype.slice.call(body.rows);
     const total = rows.length;
     const summary = shown.textContent;
@@ -52,7 +70,7 @@
       let n = 0;
       const frag = document.createDocumentFragment();
       sorted.forEach(function (row) {
-        const text = row.getAttribute("data-find");
+        const text = row.getAttribute("data-find") || "";
         const ok = (!want || row.getAttribute("data-verdict") === want) && words.every(function (w) {
           return text.indexOf(w) >= 0;
         });
@@ -78,6 +96,7 @@
   }
 
   function init() {
+    /** @type {NodeListOf<HTMLElement>} */
     const boxes = document.querySelectorAll(".lb-fixtures");
     for (let i = 0; i < boxes.length; i++) setup(boxes[i]);
   }

@@ -1,18 +1,32 @@
+// @ts-check
 // lampbook page glue: wires calculator forms to the engine worker.
 // Answers computed at build time are already in the page; this makes them live.
 // Re-initialises on every page of instant navigation (the theme's document$), never twice per form.
 
+import { all, control, one } from "./lbutil.js";
 import { initWorkbench } from "./workbench.js";
 
+/** @typedef {import("./protocol").Request} Request */
+/** @typedef {import("./protocol").CalculatorDecl} CalculatorDecl */
+/** @typedef {import("./protocol").ComputeAnswer} ComputeAnswer */
+/** @typedef {import("./protocol").Refusal} Refusal */
+/** @typedef {import("./engine").Reply} Reply */
+/** @typedef {"static" | "loading" | "ready" | "failed"} EngineState */
+
 const siteEl = document.getElementById("lb-site");
-const site = siteEl ? JSON.parse(siteEl.textContent) : { root: "./", timeout: 60, engine: true };
+/** @type {{root: string, timeout: number, engine: boolean}} */
+const site = siteEl ? JSON.parse(siteEl.textContent || "") : { root: "./", timeout: 60, engine: true };
 const root = new URL(site.root, location.href);
 
+/** @type {Worker | null} */
 let worker = null;
-let engineState = "static"; // static | loading | ready | failed
+/** @type {EngineState} */
+let engineState = "static";
 let offlineReady = false;
 let failReason = "";
+let wasReady = false; // the engine has started once (a failure after that is a stop, not a failed start)
 let seq = 0;
+/** @type {Map<number, {resolve: (answer: any) => void, reject: (error: Error) => void}>} */
 const pending = new Map();
 
 // Offline needs a service worker, and browsers give one only to a secure context: HTTPS, or localhost
@@ -28,7 +42,7 @@ function setStatus() {
     failed: "engine unavailable" + (failReason ? " (" + failReason + ")" : "") + ": answers shown were computed at build time",
   }[engineState];
   const offline = offlineReady ? "offline-ready" : offlineNote;
-  for (const el of document.querySelectorAll(".lb-engine")) {
+  for (const el of all(document, ".lb-engine")) {
     el.textContent = offline ? `${text} · ${offline}` : text;
     el.dataset.state = engineState + (offlineReady ? " offline" : secure ? "" : " no-offline");
     el.title = secure ? "" : "Browsers keep a site for offline use only when it is served over HTTPS (or from localhost on this device).";
@@ -42,7 +56,7 @@ function startEngine() {
   // started early by the page's head (the plugin writes it) when it could be; else here
   const early = window.lbEngine && !window.lbEngine.taken ? window.lbEngine : null;
   if (early) early.taken = true;
-  worker = early ? early.worker : new Worker(new URL("assets/lampbook/worker.js", root), { type: "module" });
+  const w = (worker = early ? early.worker : new Worker(new URL("assets/lampbook/worker.js", root), { type: "module" }));
   const timer = setTimeout(() => {
     if (engineState === "loading") {
       engineState = "failed";
@@ -52,14 +66,16 @@ function startEngine() {
       console.error("lampbook: the engine did not start within " + site.timeout + " s (check that .wasm files are served as application/wasm)");
     }
   }, site.timeout * 1000);
-  worker.onmessage = (ev) => {
+  /** @param {MessageEvent<Reply>} ev */
+  const onMessage = (ev) => {
     const m = ev.data;
     if (m.type === "ready") {
       clearTimeout(timer);
       engineState = "ready";
+      wasReady = true;
       performance.mark("lb-engine-ready");
       setStatus();
-      for (const f of document.querySelectorAll(".lb-calc[data-live]")) run(f);
+      for (const f of all(document, ".lb-calc[data-live]")) run(f);
     } else if (m.type === "failed") {
       clearTimeout(timer);
       engineStopped(String(m.error));
@@ -73,16 +89,24 @@ function startEngine() {
       if (p) p.resolve(m.answer);
     }
   };
-  worker.onerror = (e) => {
+  /** @param {ErrorEvent} e */
+  const onError = (e) => {
     clearTimeout(timer);
     engineStopped(e.message || "the engine stopped");
     console.error("lampbook engine:", e.message);
   };
-  if (early) for (const e of early.queue.splice(0)) (e.type === "error" ? worker.onerror : worker.onmessage)(e);
+  w.onmessage = onMessage;
+  w.onerror = onError;
+  if (early)
+    for (const e of early.queue.splice(0)) {
+      if (e instanceof MessageEvent) onMessage(e);
+      else onError(e);
+    }
 }
 
 // The engine has stopped (failed to start, or died with requests in flight): every pending request is
 // refused with the reason, so no form waits for an answer that cannot come; the forms say their answers are stale.
+/** @param {string} reason */
 function engineStopped(reason) {
   engineState = "failed";
   failReason = String(reason).slice(0, 120);
@@ -92,32 +116,47 @@ function engineStopped(reason) {
   for (const p of waiting) p.reject(new Error(`engine stopped: ${failReason}`));
 }
 
+/**
+ * One request to the engine; rejects when the engine is not running or stops before it answers.
+ * @template {Request} R
+ * @param {R} request
+ * @returns {Promise<import("./protocol").AnswerTo<R>>}
+ */
 function query(request) {
-  if (!worker || engineState === "failed") return Promise.reject(new Error(`engine unavailable: ${failReason}`));
+  const w = worker;
+  if (!w || engineState === "failed") return Promise.reject(new Error(`engine unavailable: ${failReason}`));
   return new Promise((resolve, reject) => {
     const id = ++seq;
     pending.set(id, { resolve, reject });
-    worker.postMessage({ type: "query", id, request });
+    /** @type {import("./engine").Query} */
+    const q = { type: "query", id, request };
+    w.postMessage(q);
   });
 }
 
 // a form whose request the engine could not answer keeps its last answer, marked stale
+/** @param {HTMLElement} box @param {unknown} error */
 function markStale(box, error) {
   box.classList.add("lb-stale");
-  box.dataset.engineError = String(error && error.message ? error.message : error);
+  box.dataset.engineError = String(error instanceof Error && error.message ? error.message : error);
 }
 
 // the declaration sits in a template, out of reach of the theme's script re-creation on page changes
+/**
+ * @param {HTMLElement} box
+ * @returns {{declaration: CalculatorDecl}}
+ */
 function dataOf(box) {
-  const tpl = box.querySelector("template.lb-tpl");
-  const el = tpl ? tpl.content.querySelector(".lb-data") : box.querySelector(".lb-data");
-  return JSON.parse(el.textContent);
+  const tpl = /** @type {HTMLTemplateElement | null} */ (box.querySelector("template.lb-tpl"));
+  return JSON.parse(one(tpl ? tpl.content : box, ".lb-data").textContent || "");
 }
 
+/** @param {HTMLElement} box @returns {Record<string, string>} */
 function inputsOf(box) {
+  /** @type {Record<string, string>} */
   const out = {};
-  for (const el of box.querySelectorAll(".lb-form [name]")) {
-    const field = el.closest(".lb-field");
+  for (const el of /** @type {NodeListOf<HTMLInputElement | HTMLSelectElement>} */ (box.querySelectorAll(".lb-form [name]"))) {
+    const field = /** @type {HTMLElement | null} */ (el.closest(".lb-field"));
     if (field && field.hidden) continue;
     // a blank goes to the engine as a blank: a field with a usual value is then an error, never that value
     // silently; an optional one stays unset
@@ -126,30 +165,34 @@ function inputsOf(box) {
   return out;
 }
 
+/** @param {HTMLElement} box @param {CalculatorDecl} decl */
 function showModes(box, decl) {
   if (!decl.mode) return;
-  const sel = box.querySelector(`[name="${decl.mode}"]`);
+  const sel = /** @type {HTMLSelectElement | null} */ (box.querySelector(`[name="${decl.mode}"]`));
   const mode = sel ? sel.value : "";
-  for (const f of box.querySelectorAll(".lb-field[data-modes]")) f.hidden = !f.dataset.modes.split(" ").includes(mode);
+  for (const f of all(box, ".lb-field[data-modes]")) f.hidden = !(f.dataset.modes || "").split(" ").includes(mode);
 }
 
 // the folded inputs' line shows what they are set to, so nothing hides a surprise
+/** @param {HTMLElement} box */
 function foldSummary(box) {
   const line = box.querySelector(".lb-more-values");
   if (!line) return;
   const parts = [];
-  for (const f of box.querySelectorAll(".lb-more .lb-field")) {
+  for (const f of all(box, ".lb-more .lb-field")) {
     if (f.hidden) continue;
-    const el = f.querySelector("[name]");
-    const label = f.querySelector("label").textContent;
-    const v = el.tagName === "SELECT" ? el.options[el.selectedIndex].text : el.value.trim() || (el.placeholder || "blank");
+    const el = control(f, "[name]");
+    const label = one(f, "label").textContent;
+    const v = el instanceof HTMLSelectElement ? el.options[el.selectedIndex].text : el.value.trim() || (el.placeholder || "blank");
     parts.push(`${label} ${v}`);
   }
   line.textContent = parts.join(" · ");
 }
 
 // --- imperial outputs: lengths, sizes and temperatures follow the unit switch -------------------
+/** @param {number} n */
 const AWG_D = (n) => 0.127e-3 * Math.pow(92, (36 - n) / 39);
+/** @param {import("./protocol").Value | undefined} si @param {string} dim @returns {string | null} */
 function imperialOf(si, dim) {
   if (si === null || si === undefined || typeof si !== "number") return null;
   if (dim === "temperature") return `${+(si * 9 / 5 + 32).toFixed(1)} °F`;
@@ -169,6 +212,7 @@ function imperialOf(si, dim) {
   return null;
 }
 
+/** @param {HTMLElement} box @param {CalculatorDecl} decl @param {ComputeAnswer} ans @param {string} name */
 function shown(box, decl, ans, name) {
   if (box.dataset.units === "imperial") {
     const o = decl.outputs.find((x) => x.name === name);
@@ -179,27 +223,30 @@ function shown(box, decl, ans, name) {
 }
 
 // a short value is a number with its unit: it never breaks across lines
+/** @param {unknown} text */
 const num = (text) => (String(text).length <= 14 ? ' class="lb-num"' : ' class="lb-wide"');
 
+/** @param {unknown} s */
 function esc(s) {
-  return String(s).replace(/[&<>"']/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c]);
+  return String(s).replace(/[&<>"']/g, (c) => /** @type {Record<string, string>} */ ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c]);
 }
 
+/** @param {HTMLElement} box @param {CalculatorDecl} decl @param {ComputeAnswer | Refusal} ans */
 function render(box, decl, ans) {
-  for (const el of box.querySelectorAll(".lb-err")) el.textContent = "";
-  for (const el of box.querySelectorAll(".lb-field")) el.classList.remove("lb-bad");
-  const warn = box.querySelector(".lb-warn");
+  for (const el of all(box, ".lb-err")) el.textContent = "";
+  for (const el of all(box, ".lb-field")) el.classList.remove("lb-bad");
+  const warn = one(box, ".lb-warn");
   if (!ans.ok) {
     const loose = [];
     for (const e of ans.errors) {
-      const input = box.querySelector(`.lb-form [name="${CSS.escape(e.field || "")}"]`);
-      if (input) {
-        const f = input.closest(".lb-field");
-        const fold = f.closest(".lb-more");
+      const input = /** @type {HTMLInputElement | HTMLSelectElement | null} */ (box.querySelector(`.lb-form [name="${CSS.escape(e.field || "")}"]`));
+      const f = input && /** @type {HTMLElement | null} */ (input.closest(".lb-field"));
+      if (input && f) {
+        const fold = /** @type {HTMLDetailsElement | null} */ (f.closest(".lb-more"));
         if (fold) fold.open = true;
         f.classList.add("lb-bad");
         const blank = input.value.trim() === "" && input.dataset.default;
-        f.querySelector(".lb-err").textContent = blank
+        one(f, ".lb-err").textContent = blank
           ? `needs a value: a blank is not read as ${input.dataset.default}`
           : e.expected ? `expected ${e.expected}` : e.message;
       } else loose.push(e.message);
@@ -209,37 +256,35 @@ function render(box, decl, ans) {
     return;
   }
   box.classList.remove("lb-stale");
-  for (const tr of box.querySelectorAll("tr[data-out]")) {
-    const k = tr.dataset.out;
+  for (const tr of all(box, "tr[data-out]")) {
+    const k = tr.dataset.out || "";
     tr.hidden = !ans.applies.includes(k); // another mode's output; one of this mode with no value says so
     tr.classList.toggle("lb-na", ans.values[k] === null || ans.values[k] === undefined);
-    tr.querySelector("td").textContent = shown(box, decl, ans, k);
+    one(tr, "td").textContent = shown(box, decl, ans, k);
     if (tr.classList.contains("lb-text")) keepNumbers(tr);
   }
-  for (const item of box.querySelectorAll(".lb-pin-item")) {
-    const k = item.dataset.pin;
+  for (const item of all(box, ".lb-pin-item")) {
+    const k = item.dataset.pin || "";
     item.hidden = !ans.applies.includes(k);
-    item.querySelector(".lb-pin-value").textContent = shown(box, decl, ans, k);
+    one(item, ".lb-pin-value").textContent = shown(box, decl, ans, k);
   }
   warn.innerHTML = ans.warnings.map((m) => `<li>${esc(m)}</li>`).join("");
-  box.querySelector(".lb-notes ul").innerHTML = ans.notes.map((m) => `<li>${esc(m)}</li>`).join("");
+  one(box, ".lb-notes ul").innerHTML = ans.notes.map((m) => `<li>${esc(m)}</li>`).join("");
   const cols = decl.columns.filter((c) => ans.rows.some((r) => r[c.name] !== null && r[c.name] !== undefined));
   // the full list of options folds away: the chosen one is in the answers above
-  const rowsHost = box.querySelector(".lb-rows");
+  const rowsHost = one(box, ".lb-rows");
   const wasOpen = Boolean(rowsHost.querySelector("details[open]"));
   rowsHost.innerHTML = ans.rows.length && cols.length
     ? `<details class="lb-options"${wasOpen ? " open" : ""}><summary>Every option (${ans.rows.length})</summary><div class="lb-scroll"><table class="lb-table lb-cards" data-labelled="1"><thead><tr>${cols.map((c) => `<th>${esc(c.label)}</th>`).join("")}</tr></thead><tbody>` +
       ans.rows_display.map((r) => `<tr>${cols.map((c) => `<td data-label="${esc(c.label)}"${num(r[c.name])}>${esc(r[c.name])}</td>`).join("")}</tr>`).join("") + "</tbody></table></div></details>"
     : "";
-  for (const td of rowsHost.querySelectorAll("td")) keepNumbers(td);
+  for (const td of all(rowsHost, "td")) keepNumbers(td);
 }
 
-// --- plots: sweeps drawn as SVG, axes with units ------------------------------------
-const SWEEPS = {
-  current_vs_mains: { param: "mains_voltage", dim: "V", out: "led_current_avg", label: "LED current against mains voltage", scale: [0.85, 1.15], xTitle: "Mains voltage", yTitle: "LED current" },
-  ripple_vs_capacitance: { param: "capacitance", dim: "F", out: "ripple_pp", label: "Bus ripple against smoothing capacitance", scale: [0.25, 4], log: true, xTitle: "Smoothing capacitance", yTitle: "Bus ripple, peak to peak" },
-};
+// --- plots: the core's sweeps (lampcalc.schema.Sweep) drawn as SVG, axes with units ---------------------
+/** @type {[number, string][]} */
 const SI = [[1e-12, "p"], [1e-9, "n"], [1e-6, "µ"], [1e-3, "m"], [1, ""], [1e3, "k"], [1e6, "M"]];
+/** @param {number} x @param {string} unit */
 function si(x, unit) {
   if (x === 0) return "0 " + unit;
   let best = SI[4];
@@ -247,62 +292,53 @@ function si(x, unit) {
   return `${+(x / best[0]).toPrecision(3)} ${best[1]}${unit}`;
 }
 
+// the points come from the core in one request ({"kind": "sweep"}); the page only draws them
+/** @param {HTMLElement} box @param {CalculatorDecl} decl @param {ComputeAnswer | Refusal} ans */
 async function plot(box, decl, ans) {
-  const host = box.querySelector(".lb-plot");
-  const name = decl.plots[0];
-  if (!name || !ans.ok) { host.innerHTML = ""; return; }
-  const sw = SWEEPS[name];
-  const base = decl.params.find((p) => p.name === sw.param);
-  const inputs = inputsOf(box);
-  let centre;
-  if (sw.param === "mains_voltage") {
-    const r = await query({ kind: "compute", calculator: "mains", inputs: { region: inputs.region || "230-50", ...(inputs.mains_voltage ? { mains_voltage: inputs.mains_voltage } : {}) } });
-    centre = r.ok ? r.values.voltage : 230;
-  } else {
-    const r = await query({ kind: "compute", calculator: "quantity", inputs: { text: inputs[sw.param] || base.default, dimension: base.dim } });
-    centre = r.ok ? Number(r.values.si) : null;
-  }
-  if (!centre) { host.innerHTML = ""; return; }
-  const pts = [];
-  for (let k = 0; k <= 16; k++) {
-    const f = sw.log ? sw.scale[0] * Math.pow(sw.scale[1] / sw.scale[0], k / 16) : sw.scale[0] + (sw.scale[1] - sw.scale[0]) * k / 16;
-    const x = centre * f;
-    const r = await query({ kind: "compute", calculator: decl.name, inputs: { ...inputs, [sw.param]: `${x} ${sw.dim}` } });
-    if (r.ok && r.values[sw.out] !== null) pts.push([x, r.values[sw.out]]);
-  }
+  const host = one(box, ".lb-plot");
+  const sw = decl.plots[0];
+  if (!sw || !ans.ok) { host.innerHTML = ""; return; }
+  const swept = await query({ kind: "sweep", calculator: decl.name, plot: sw.name, inputs: inputsOf(box) });
+  if (!swept.ok || !swept.centre) { host.innerHTML = ""; return; }
+  const centre = swept.centre;
+  const pts = swept.points;
   if (pts.length < 2) { host.innerHTML = ""; return; }
-  const outDecl = decl.outputs.find((o) => o.name === sw.out);
-  const unit = { current: "A", voltage: "V" }[outDecl.dim] || "";
+  const unit = sw.y_unit;
   const W = 340, H = 220, L = 58, B = 44, T = 10, R = 12;
   const xs = pts.map((p) => p[0]), ys = pts.map((p) => p[1]);
   const x0 = Math.min(...xs), x1 = Math.max(...xs);
   // the value axis starts at zero, so a small change looks small
   const yt = ticks(0, Math.max(...ys) * 1.05 || 1, 5), y0 = 0, y1 = yt[yt.length - 1];
+  /** @param {number} x */
   const fx = (x) => sw.log ? L + (W - L - R) * Math.log(x / x0) / Math.log(x1 / x0) : L + (W - L - R) * (x - x0) / (x1 - x0);
+  /** @param {number} y */
   const fy = (y) => H - B - (H - B - T) * (y - y0) / (y1 - y0);
   const xt = sw.log ? logTicks(x0, x1) : ticks(x0, x1, 4).filter((x) => x >= x0 && x <= x1);
   const line = pts.map((p) => `${fx(p[0]).toFixed(1)},${fy(p[1]).toFixed(1)}`).join(" ");
-  const cx = fx(centre), cy = fy(ans.values[sw.out] ?? 0);
+  const here = ans.values[sw.output];
+  const cx = fx(centre), cy = fy(typeof here === "number" ? here : 0);
   const grid = yt.map((y) => `<line x1="${L}" y1="${fy(y).toFixed(1)}" x2="${W - R}" y2="${fy(y).toFixed(1)}" class="gr"/>` +
     `<text x="${L - 4}" y="${(fy(y) + 3).toFixed(1)}" class="tk" text-anchor="end">${esc(si(y, unit))}</text>`).join("") +
     xt.map((x) => `<line x1="${fx(x).toFixed(1)}" y1="${H - B}" x2="${fx(x).toFixed(1)}" y2="${H - B + 4}" class="ax"/>` +
-    `<text x="${fx(x).toFixed(1)}" y="${H - B + 15}" class="tk" text-anchor="middle">${esc(si(x, sw.dim))}</text>`).join("");
+    `<text x="${fx(x).toFixed(1)}" y="${H - B + 15}" class="tk" text-anchor="middle">${esc(si(x, sw.x_unit))}</text>`).join("");
   host.innerHTML = `<figure class="lb-fig"><svg viewBox="0 0 ${W} ${H}" role="img" aria-label="${esc(sw.label)}">${grid}
 <line x1="${L}" y1="${H - B}" x2="${W - R}" y2="${H - B}" class="ax"/><line x1="${L}" y1="${T}" x2="${L}" y2="${H - B}" class="ax"/>
-<text x="${(L + W - R) / 2}" y="${H - 6}" class="ti" text-anchor="middle">${esc(sw.xTitle)} (${esc(sw.dim)})${sw.log ? ", log scale" : ""}</text>
-<text transform="translate(12 ${(T + H - B) / 2}) rotate(-90)" class="ti" text-anchor="middle">${esc(sw.yTitle)} (${esc(unit)})</text>
+<text x="${(L + W - R) / 2}" y="${H - 6}" class="ti" text-anchor="middle">${esc(sw.x_title)} (${esc(sw.x_unit)})${sw.log ? ", log scale" : ""}</text>
+<text transform="translate(12 ${(T + H - B) / 2}) rotate(-90)" class="ti" text-anchor="middle">${esc(sw.y_title)} (${esc(unit)})</text>
 <polyline points="${line}" class="ln"/><circle cx="${cx.toFixed(1)}" cy="${cy.toFixed(1)}" r="4" class="pt"/></svg>
 <figcaption>${esc(sw.label)}; the dot is the current input.</figcaption></figure>`;
 }
 
 // round steps (1, 2, 5 × 10^k) from lo to at least hi
+/** @param {number} lo @param {number} hi @param {number} n @returns {number[]} */
 function ticks(lo, hi, n) {
   const raw = (hi - lo) / n, mag = Math.pow(10, Math.floor(Math.log10(raw)));
-  const step = [1, 2, 2.5, 5, 10].map((k) => k * mag).find((k) => k >= raw);
+  const step = [1, 2, 2.5, 5, 10].map((k) => k * mag).find((k) => k >= raw) ?? 10 * mag;
   const out = [];
   for (let v = Math.floor(lo / step) * step; v < hi + step * 0.999; v += step) out.push(+v.toPrecision(12));
   return out;
 }
+/** @param {number} lo @param {number} hi @returns {number[]} */
 function logTicks(lo, hi) {
   const out = [];
   for (let e = Math.floor(Math.log10(lo)); e <= Math.ceil(Math.log10(hi)); e++)
@@ -311,25 +347,29 @@ function logTicks(lo, hi) {
 }
 
 // --- share links: page/?lb=ID&input=value#ID (a query, not the hash: the theme owns the hash) --------
+/** @param {HTMLElement} box */
 function linkFor(box) {
   const p = new URLSearchParams({ lb: box.id, ...inputsOf(box) });
   return `${location.pathname}?${p.toString()}#${box.id}`;
 }
 
+/** @param {HTMLElement} box */
 function fromQuery(box) {
   const params = new URLSearchParams(location.search);
   if (params.get("lb") !== box.id) return false;
   for (const [k, v] of params) {
     if (k === "lb") continue;
-    const el = box.querySelector(`.lb-form [name="${CSS.escape(k)}"]`);
-    if (!el || el.readOnly) continue;
-    if (el.tagName === "SELECT" && ![...el.options].some((o) => o.value === v)) continue;
+    const el = /** @type {HTMLInputElement | HTMLSelectElement | null} */ (box.querySelector(`.lb-form [name="${CSS.escape(k)}"]`));
+    if (!el || (el instanceof HTMLInputElement && el.readOnly)) continue;
+    if (el instanceof HTMLSelectElement && ![...el.options].some((o) => o.value === v)) continue;
     el.value = v.slice(0, 200);
   }
   return true;
 }
 
+/** @type {WeakMap<HTMLElement, ReturnType<typeof setTimeout>>} */
 const timers = new WeakMap();
+/** @param {HTMLElement} box */
 async function run(box) {
   if (engineState !== "ready") return;
   const decl = dataOf(box).declaration;
@@ -343,38 +383,38 @@ async function run(box) {
     return;
   }
   render(box, decl, ans);
-  box.querySelector(".lb-link").setAttribute("href", linkFor(box));
+  one(box, ".lb-link").setAttribute("href", linkFor(box));
   box.dataset.computed = String(Number(box.dataset.computed || 0) + 1);
   if (!performance.getEntriesByName("lb-first-live").length) performance.mark("lb-first-live");
-  if (decl.plots.length) plot(box, decl, ans).catch(() => { box.querySelector(".lb-plot").innerHTML = ""; });
+  if (decl.plots.length) plot(box, decl, ans).catch(() => { one(box, ".lb-plot").innerHTML = ""; });
 }
 
 // --- a design file opened from the device: read here, solved in the worker, never uploaded ---------
 function initOpen() {
-  for (const box of document.querySelectorAll(".lb-open:not([data-live])")) {
+  for (const box of all(document, ".lb-open:not([data-live])")) {
     box.dataset.live = "1";
     startEngine();
-    const input = box.querySelector(".lb-open-file");
+    const input = /** @type {HTMLInputElement} */ (control(box, ".lb-open-file"));
     input.addEventListener("change", async () => {
       const file = input.files && input.files[0];
       if (!file) return;
-      const errs = box.querySelector(".lb-open-err");
-      const out = box.querySelector(".lb-open-out");
+      const errs = one(box, ".lb-open-err");
+      const out = one(box, ".lb-open-out");
       errs.innerHTML = "";
       if (file.size > 200000) { errs.innerHTML = "<li>file: over 200 kB; expected a design file (.toml)</li>"; return; }
       const text = await file.text();
       out.innerHTML = "<p>Solving…</p>";
-      await new Promise((resolve) => {
+      await /** @type {Promise<void>} */ (new Promise((resolve) => {
         const wait = () => (engineState === "ready" ? resolve() : engineState === "failed" ? resolve() : setTimeout(wait, 100));
         wait();
-      });
+      }));
       if (engineState !== "ready") { out.innerHTML = ""; errs.innerHTML = "<li>the engine could not start in this browser</li>"; return; }
       let ans;
       try {
         ans = await query({ kind: "sheet", toml: text });
       } catch (e) {
         out.innerHTML = "";
-        errs.innerHTML = `<li>${esc(e.message)}</li>`;
+        errs.innerHTML = `<li>${esc(e instanceof Error ? e.message : e)}</li>`;
         return;
       }
       if (!ans.ok) {
@@ -391,7 +431,8 @@ function initOpen() {
   }
 }
 
-// the engine once it is up: true, or false when it could not start
+// the engine once it is up: true, or false when it could not start (or has stopped)
+/** @returns {Promise<boolean>} */
 function whenReady() {
   return new Promise((resolve) => {
     const wait = () => (engineState === "ready" ? resolve(true) : engineState === "failed" ? resolve(false) : setTimeout(wait, 50));
@@ -399,14 +440,20 @@ function whenReady() {
   });
 }
 
+// An engine that never started gets a refusal the workbench shows; one that stopped after starting rejects,
+// as a request in flight does (engineStopped), and the workbench says the engine stopped.
 function initBenches() {
-  for (const box of document.querySelectorAll(".lb-bench:not([data-live])")) {
+  for (const box of all(document, ".lb-bench:not([data-live])")) {
     box.dataset.live = "1";
     startEngine();
+    /** @type {import("./workbench.js").Engine} */
     const engine = {
       root,
-      query: async (request) =>
-        (await whenReady()) ? query(request) : { ok: false, errors: [{ field: "", message: "the engine could not start in this browser" }] },
+      query: async (request) => {
+        if (await whenReady()) return query(request);
+        if (wasReady) throw new Error(`engine stopped: ${failReason}`);
+        return { ok: false, errors: [{ field: "", value: "", expected: "", message: "the engine could not start in this browser" }] };
+      },
     };
     initWorkbench(box, engine).catch((e) => console.error("lampbook workbench:", e));
   }
@@ -414,9 +461,10 @@ function initBenches() {
 
 // in running text a number keeps its unit on its line (a no-break space joins them)
 const NUMBER_UNIT = /(\d) (?=(?:[pnµumkMG]?(?:VA|V|A|W|Ω|F|Hz|s|J|h)|%|°C|°F|mm²|AWG|kcmil)(?![\w]))/g;
+/** @param {Node} el */
 function keepNumbers(el) {
   const walker = document.createTreeWalker(el, NodeFilter.SHOW_TEXT);
-  for (let n = walker.nextNode(); n; n = walker.nextNode())
+  for (let n = /** @type {Text | null} */ (walker.nextNode()); n; n = /** @type {Text | null} */ (walker.nextNode()))
   {
     const joined = n.data.replace(NUMBER_UNIT, "$1\u00a0");
     if (joined !== n.data) n.data = joined;
@@ -424,14 +472,15 @@ function keepNumbers(el) {
 }
 
 // narrow screens show long tables as stacked label/value cards: each cell learns its column's label
+/** @param {ParentNode} scope */
 function labelTables(scope) {
-  for (const td of scope.querySelectorAll(".lb-out tr.lb-text td, .lb-table td")) keepNumbers(td);
-  for (const t of scope.querySelectorAll("table.lb-cards:not([data-labelled])")) {
-    const heads = [...t.querySelectorAll("thead th")].map((th) => th.textContent.trim());
-    for (const tr of t.querySelectorAll("tbody tr"))
-      [...tr.children].forEach((td, i) => {
+  for (const td of all(scope, ".lb-out tr.lb-text td, .lb-table td")) keepNumbers(td);
+  for (const t of all(scope, "table.lb-cards:not([data-labelled])")) {
+    const heads = [...all(t, "thead th")].map((th) => (th.textContent || "").trim());
+    for (const tr of all(t, "tbody tr"))
+      [.../** @type {HTMLCollectionOf<HTMLElement>} */ (tr.children)].forEach((td, i) => {
         td.dataset.label = heads[i] || "";
-        if (td.textContent.trim().length <= 14) td.classList.add("lb-num");
+        if ((td.textContent || "").trim().length <= 14) td.classList.add("lb-num");
         else td.classList.add("lb-wide");
       });
     t.dataset.labelled = "1";
@@ -440,7 +489,7 @@ function labelTables(scope) {
 
 // a schematic opens full screen, where it can be scrolled and pinched to read every label
 function initSheets() {
-  for (const fig of document.querySelectorAll(".lb-schematic:not([data-live])")) {
+  for (const fig of all(document, ".lb-schematic:not([data-live])")) {
     fig.dataset.live = "1";
     const b = document.createElement("button");
     b.type = "button";
@@ -456,7 +505,7 @@ function initSheets() {
 }
 // on paper every check shows its reason and source
 window.addEventListener("beforeprint", () => {
-  for (const d of document.querySelectorAll(".lb-checklist details")) d.open = true;
+  for (const d of /** @type {NodeListOf<HTMLDetailsElement>} */ (document.querySelectorAll(".lb-checklist details"))) d.open = true;
 });
 
 function init() {
@@ -464,7 +513,7 @@ function init() {
   initBenches();
   initSheets();
   labelTables(document);
-  const boxes = document.querySelectorAll(".lb-calc:not([data-live])");
+  const boxes = all(document, ".lb-calc:not([data-live])");
   if (!boxes.length) { setStatus(); if (!worker) startOffline(); return; }
   setStatus();
   startEngine();
@@ -478,22 +527,24 @@ function init() {
       clearTimeout(timers.get(box));
       timers.set(box, setTimeout(() => run(box), 120));
     };
-    box.querySelector(".lb-form").addEventListener("input", later);
-    box.querySelector(".lb-form").addEventListener("change", later);
+    const form = one(box, ".lb-form");
+    form.addEventListener("input", later);
+    form.addEventListener("change", later);
     // the mode's fields show at once, engine or not
     const onEdit = () => { showModes(box, decl); foldSummary(box); };
-    box.querySelector(".lb-form").addEventListener("input", onEdit);
-    box.querySelector(".lb-form").addEventListener("change", onEdit);
-    const units = box.querySelector(".lb-units");
+    form.addEventListener("input", onEdit);
+    form.addEventListener("change", onEdit);
+    const units = /** @type {HTMLElement | null} */ (box.querySelector(".lb-units"));
     if (units) units.addEventListener("click", () => {
       const imperial = units.dataset.system === "metric";
-      for (const el of box.querySelectorAll("[data-imperial]")) el.value = imperial ? el.dataset.imperial : el.dataset.default;
+      for (const el of /** @type {NodeListOf<HTMLInputElement>} */ (box.querySelectorAll("[data-imperial]")))
+        el.value = String(imperial ? el.dataset.imperial : el.dataset.default);
       units.dataset.system = imperial ? "imperial" : "metric";
       box.dataset.units = units.dataset.system;
       units.textContent = imperial ? "Metric units" : "Imperial units";
       later();
     });
-    box.querySelector(".lb-link").addEventListener("click", (ev) => {
+    one(box, ".lb-link").addEventListener("click", (ev) => {
       ev.preventDefault();
       history.replaceState(null, "", linkFor(box));
     });
@@ -519,7 +570,7 @@ function startOffline() {
       if (navigator.storage && navigator.storage.persist) navigator.storage.persist().catch(() => {});
     },
     (e) => {
-      offlineNote = "offline unavailable (" + String(e && e.message ? e.message : e).slice(0, 80) + ")";
+      offlineNote = "offline unavailable (" + String(e instanceof Error && e.message ? e.message : e).slice(0, 80) + ")";
       setStatus();
       console.warn("lampbook: offline cache unavailable:", e);
     },
@@ -531,8 +582,10 @@ function startOffline() {
 async function precacheComplete() {
   const sw = navigator.serviceWorker.controller;
   if (!sw || !("caches" in window)) return false;
+  /** @type {string | null} */
   const version = await new Promise((resolve) => {
     const t = setTimeout(() => resolve(null), 3000);
+    /** @param {MessageEvent} ev */
     const onMsg = (ev) => {
       if (ev.data && ev.data.type === "version") {
         clearTimeout(t);

@@ -1,16 +1,31 @@
+// @ts-check
 // lampbook engine worker: runs the calculation core in Pyodide, off the page's thread.
 // Messages in:  {type: "query", id, request}    (request is what lampcalc.api.handle takes)
 // Messages out: {type: "ready"} | {type: "failed", error} | {type: "result", id, answer}
 //               | {type: "stored"} (the engine's files are handed to the offline cache)
+// engine.d.ts declares the messages; protocol.d.ts (generated from the core) the requests and answers.
 // self.lbPhases holds the start-up phases in ms from the worker's start (read by the benchmarks).
-import { loadPyodide } from "../../engine/pyodide.mjs";
+// @ts-expect-error -- the engine folder is written beside the site at build time (from node_modules/pyodide)
+import { loadPyodide as loadEngine } from "../../engine/pyodide.mjs";
 
+/** @typedef {import("./engine").Query} Query */
+/** @typedef {import("./engine").Reply} Reply */
+/** @typedef {import("./protocol").Answer} Answer */
+
+/** @type {typeof import("pyodide").loadPyodide} */
+const loadPyodide = loadEngine;
 const base = new URL("../../engine/", import.meta.url).href;
+/** @type {import("./engine").Phases} */
 const phases = (self.lbPhases = { origin: performance.timeOrigin, script: performance.now() });
+/** @type {{handle: (text: string) => string} | null} */
 let api = null;
+
+/** @param {Reply} reply */
+const reply = (reply) => self.postMessage(reply);
 
 // Keep a copy of every engine file this worker downloads, so that the service worker can
 // take it over (after checking its digest) instead of downloading it a second time.
+/** @type {{url: string, copy: Response}[]} */
 const fetched = [];
 const networkFetch = self.fetch.bind(self);
 self.fetch = async (input, init) => {
@@ -32,7 +47,7 @@ const ready = (async () => {
   // no unpacking; the lock file's digest guards the download
   try {
     const entry = py.lockfile.packages.lampcalc;
-    const sri = "sha256-" + btoa(String.fromCharCode(...entry.sha256.match(/../g).map((h) => parseInt(h, 16))));
+    const sri = "sha256-" + btoa(String.fromCharCode(...(entry.sha256.match(/../g) ?? []).map((h) => parseInt(h, 16))));
     const response = await fetch(base + entry.file_name, { integrity: sri });
     if (!response.ok) throw new Error(entry.file_name + ": HTTP " + response.status);
     const where = "/lib/" + entry.file_name;
@@ -41,7 +56,7 @@ const ready = (async () => {
     phases.package = performance.now();
     api = py.pyimport("lampcalc.api");
   } catch (e) {
-    throw new Error("the core did not install: " + String(e && e.message ? e.message : e), { cause: e });
+    throw new Error("the core did not install: " + String(e instanceof Error && e.message ? e.message : e), { cause: e });
   }
   phases.imported = performance.now();
   return true;
@@ -56,29 +71,32 @@ async function store() {
     // no room or no cache storage: the service worker downloads the files itself
   } finally {
     phases.stored = performance.now();
-    self.postMessage({ type: "stored" });
+    reply({ type: "stored" });
   }
 }
 
 ready.then(
   () => {
-    self.postMessage({ type: "ready" });
+    reply({ type: "ready" });
     store();
   },
   (e) => {
-    self.postMessage({ type: "failed", error: String(e && e.message ? e.message : e) });
+    reply({ type: "failed", error: String(e && e.message ? e.message : e) });
     store();
   },
 );
 
+/** @param {MessageEvent<Query | undefined>} ev */
 self.onmessage = async (ev) => {
-  const msg = ev.data || {};
-  if (msg.type !== "query") return;
+  const msg = ev.data;
+  if (!msg || msg.type !== "query") return;
   try {
     await ready;
-    const out = api.handle(JSON.stringify(msg.request));
-    self.postMessage({ type: "result", id: msg.id, answer: JSON.parse(out) });
+    if (!api) throw new Error("the core is not loaded");
+    /** @type {Answer} */
+    const answer = JSON.parse(api.handle(JSON.stringify(msg.request)));
+    reply({ type: "result", id: msg.id, answer });
   } catch (e) {
-    self.postMessage({ type: "result", id: msg.id, answer: { ok: false, errors: [{ field: "", message: String(e) }] } });
+    reply({ type: "result", id: msg.id, answer: { ok: false, errors: [{ field: "", value: "", expected: "", message: String(e) }] } });
   }
 };

@@ -1,7 +1,7 @@
 // Unit tests of the page helpers under Node's own test runner (node --test).
 import { test } from "node:test";
 import assert from "node:assert/strict";
-import { b64decode, b64encode, esc, si } from "../../lampbook/assets/lbutil.js";
+import { all, b64decode, b64encode, esc, messageOf, one, si } from "../../lampbook/assets/lbutil.js";
 
 test("esc escapes the five HTML characters and nothing else", () => {
   assert.equal(esc(`<a href="x">'&'</a>`), "&lt;a href=&quot;x&quot;&gt;&#39;&amp;&#39;&lt;/a&gt;");
@@ -30,4 +30,18 @@ test("si picks the prefix and keeps three figures", () => {
   assert.equal(si(0, "V"), "0 V");
   assert.equal(si(NaN, "V"), "–");
   assert.equal(si(2200, "Ω"), "2.2 kΩ");
+});
+
+test("one finds the element the markup always has, and names the selector when it is missing", () => {
+  const el = { id: "x" };
+  const root = { querySelector: (sel) => (sel === ".lb-plot" ? el : null), querySelectorAll: () => [el, el] };
+  assert.equal(one(root, ".lb-plot"), el);
+  assert.throws(() => one(root, ".lb-bench-app"), /no \.lb-bench-app in the page/);
+  assert.deepEqual([...all(root, ".any")], [el, el]);
+});
+
+test("messageOf reads what was thrown, an Error or anything else", () => {
+  assert.equal(messageOf(new Error("engine stopped: gone")), "engine stopped: gone");
+  assert.equal(messageOf("plain"), "plain");
+  assert.equal(messageOf(undefined), "undefined");
 });
