@@ -224,12 +224,11 @@ def lines(res: dict[str, object]) -> list[str]:
         "(engine bundled; the compiled standard library, its usage measurement and the runtime's compressed",
         "siblings already cached, as after any build of the same core and runtime). Cold: empty review cache.",
         "One edit: one design file changed. Reviews run in as many worker processes as the machine has cores.",
-        "The machine was shared",
-        f"with other engineers' work during the run (load average {res['load_before']} before, "
-        f"{res['load_after']} after, on {par['jobs']} cores).",  # type: ignore[index]
+        f"Machine load (1-min average, the benchmark's own work included) {res['load_before']} before and "
+        f"{res['load_after']} after, on {par['jobs']} cores.",  # type: ignore[index]
         "",
-        "Each time is wall-clock; in brackets the CPU time the build and its workers used (user + system), which the",
-        "other engineers' load inflates far less than wall-clock time.",
+        "Each time is wall-clock; in brackets the CPU time the build and its workers used (user + system), which",
+        "other work on the machine inflates far less than wall-clock time.",
         "",
         "| designs | cold build | reviewed (sum of review times) | nothing changed | one edit | "
         "reviewed after the edit |",
