@@ -176,11 +176,6 @@ def _scale(p: Lin, k: float) -> Lin:
     return (p[0] * k, p[1] * k, p[2] * k, p[3] * k)
 
 
-def _g1(z: float) -> float:
-    """expm1(z)/z, well behaved at 0."""
-    return 1.0 + z / 2 + z * z / 6 if abs(z) < 1e-5 else math.expm1(z) / z
-
-
 def _g1p(z: float) -> float:
     """Derivative of expm1(z)/z."""
     if abs(z) < 1e-3:
@@ -323,47 +318,28 @@ class Solver:
 
     # -- evaluation inside one mode ---------------------------------------------
 
-    def xs(self, m: Mode, t: float) -> Vec:
-        cw, sw = math.cos(self.omega * t), math.sin(self.omega * t)
-        return (m.Xr[0] * cw - m.Xi[0] * sw, m.Xr[1] * cw - m.Xi[1] * sw)
-
-    def propagate(self, m: Mode, t0: float, x0: Vec, tau: float) -> tuple[Vec, Mat]:
-        """State at t0 + tau and the transition matrix exp(A tau)."""
-        self.steps += 1
+    def transition(self, m: Mode, tau: float) -> Mat:
+        """The transition matrix exp(A tau) of mode ``m`` (the state itself: :meth:`track`)."""
         l1, l2 = m.l1, m.l2
         a11, a12, a21, a22 = m.A
         z1, z2 = l1 * tau, l2 * tau
         e2 = math.exp(z2)
         dz = z1 - z2
-        # divided differences of exp and of (exp - 1)/lambda
+        # divided difference of exp, as in track
         if dz > 30:
             de = (math.exp(z1) - e2) / (l1 - l2)
         elif dz > 1e-9:
             de = e2 * math.expm1(dz) / (l1 - l2)
         else:
             de = tau * e2
-        f2 = tau * _g1(z2)
-        if dz > 1e-4 * max(1.0, abs(z2)):
-            df = tau * (_g1(z1) - _g1(z2)) / (l1 - l2)
-        else:
-            df = tau * tau * _g1p((z1 + z2) / 2)
-        E = (e2 + de * (a11 - l2), de * a12, de * a21, e2 + de * (a22 - l2))
-        F = (f2 + df * (a11 - l2), df * a12, df * a21, f2 + df * (a22 - l2))
-        p0 = self.xs(m, t0)
-        p1 = self.xs(m, t0 + tau)
-        y0, y1 = x0[0] - p0[0], x0[1] - p0[1]
-        c0, c1 = m.c
-        x = (
-            E[0] * y0 + E[1] * y1 + p1[0] + F[0] * c0 + F[1] * c1,
-            E[2] * y0 + E[3] * y1 + p1[1] + F[2] * c0 + F[3] * c1,
-        )
-        return x, E
+        return (e2 + de * (a11 - l2), de * a12, de * a21, e2 + de * (a22 - l2))
 
     def track(self, m: Mode, t0: float, x0: Vec) -> Callable[[float], tuple[float, float, float, float]]:
-        """The state inside mode ``m`` from (t0, x0) as a function of t, the same
-        closed form as :meth:`propagate` with the piece's constants hoisted out
-        (the march and the event search call it hundreds of times per half
-        period). Returns (vcd, vcs, sin(omega t), cos(omega t))."""
+        """The state inside mode ``m`` from (t0, x0) as a function of t: the
+        closed form x = E y + F c + p(t) (E = exp(A tau), F its integral, p the
+        sinusoidal particular solution, y = x0 - p(t0)) with the piece's
+        constants hoisted out (the march and the event search call it hundreds
+        of times per half period). Returns (vcd, vcs, sin(omega t), cos(omega t))."""
         l1, l2 = m.l1, m.l2
         a11, a12, a21, a22 = m.A
         dl = l1 - l2
@@ -571,7 +547,9 @@ class Solver:
                 kind, k = "", 0
             else:
                 t_end, kind, k = hit
-            x_end, E = self.propagate(m, t_seg0, x_seg0, t_end - t_seg0)
+            xa, xb, _, _ = at(t_end)
+            self.steps += 1
+            x_end, E = (xa, xb), self.transition(m, t_end - t_seg0)
             M = (
                 E[0] * M[0] + E[1] * M[2],
                 E[0] * M[1] + E[1] * M[3],
