@@ -1,11 +1,15 @@
 // Run the core's own tests inside Pyodide on Node, from the npm package the site ships.
-// usage: node run.mjs PYODIDE_DIR WHEELS_DIR LAMPCALC_WHEEL TESTS_DIR [--engine ENGINE_DIR FULL_STDLIB] TEST_FILE...
+// usage: node run.mjs PYODIDE_DIR WHEELS_DIR LAMPCALC_WHEEL TESTS_DIR [--engine ENGINE_DIR FULL_STDLIB [--restored]] TEST_FILE...
 // (with --engine, LAMPBOOK_CORE_MODULES in the environment lists the core's modules as JSON)
 // With --engine, the engine is the site's: its trimmed standard library, its core wheel
 // imported as a zip on sys.path (as the page's worker does). Every module of the core is
 // imported and the core answers before anything else is there; only then is the rest of
 // the standard library (FULL_STDLIB) put behind it for the test machinery, and any module
 // the core itself imports from that rest is reported and fails the run.
+// With --restored, the engine is started as the page's worker starts it on a later visit: a first
+// engine is started with snapshots allowed, the core's wheel put on sys.path and lampcalc.api imported
+// (exactly as worker.js does), its memory snapshot made; the tests then run in a second engine restored
+// from that snapshot (the wheel written to its place again), never in the first.
 import { readFileSync, readdirSync } from "node:fs";
 import { join, basename } from "node:path";
 import { pathToFileURL } from "node:url";
@@ -15,14 +19,30 @@ const [dir, wheels, core, tests] = args.splice(0, 4);
 let engine = null;
 let full = null;
 if (args[0] === "--engine") [, engine, full] = args.splice(0, 3);
+const restored = args[0] === "--restored";
+if (restored) args.shift();
 const files = args;
 const { loadPyodide } = await import(pathToFileURL(join(dir, "pyodide.mjs")).href);
 const opts = { indexURL: dir.endsWith("/") ? dir : dir + "/" };
 if (engine) opts.stdLibURL = join(engine, "python_stdlib.zip");
-const py = await loadPyodide(opts);
-if (engine) {
+let py;
+if (restored) {
+  const first = await loadPyodide({ ...opts, _makeSnapshot: true });
+  first.FS.writeFile("/lib/" + basename(core), new Uint8Array(readFileSync(core)));
+  first.pyimport("sys").path.insert(0, "/lib/" + basename(core));
+  first.pyimport("lampcalc.api");
+  const snapshot = first.makeMemorySnapshot();
+  py = await loadPyodide({ ...opts, _loadSnapshot: snapshot });
   py.FS.writeFile("/lib/" + basename(core), new Uint8Array(readFileSync(core)));
-  py.pyimport("sys").path.insert(0, "/lib/" + basename(core));
+  console.log(`restored from a snapshot of ${snapshot.length} bytes; lampcalc.api already imported: ${py.runPython("import sys; 'lampcalc.api' in sys.modules")}`);
+} else {
+  py = await loadPyodide(opts);
+}
+if (engine) {
+  if (!restored) {
+    py.FS.writeFile("/lib/" + basename(core), new Uint8Array(readFileSync(core)));
+    py.pyimport("sys").path.insert(0, "/lib/" + basename(core));
+  }
   // the core's module names (LAMPBOOK_CORE_MODULES, a JSON list): nothing but the core may load stdlib here
   py.globals.set("core_modules", py.toPy(JSON.parse(process.env.LAMPBOOK_CORE_MODULES)));
   console.log(py.runPython(`
