@@ -170,6 +170,15 @@ MEASURE = """() => ({
     live: performance.getEntriesByName('lb-first-live')[0].startTime })"""
 
 
+# bytes of the engine's memory snapshot the page keeps on the device (0 if none)
+SNAPSHOT_BYTES = """async () => {
+    for (const k of await caches.keys()) if (k.startsWith('lampbook-snapshot-')) {
+        const r = await (await caches.open(k)).match(new URL('/engine/lampbook-snapshot.bin', location.href));
+        if (r) return (await r.arrayBuffer()).byteLength;
+    }
+    return 0; }"""
+
+
 def _visit(page: Any, url: str) -> dict[str, Any]:
     page.goto(url)
     page.wait_for_selector(".lb-engine[data-state^=ready]", timeout=120000)
@@ -183,7 +192,10 @@ def _visit(page: Any, url: str) -> dict[str, Any]:
     if phases:
         # ms from the page's navigation start, like the page's own marks
         shift = phases.pop("origin") - page.evaluate("performance.timeOrigin")
-        phases = {"spawn": shift, **{k: v + shift for k, v in phases.items() if k != "stored"}}
+        phases = {
+            "spawn": shift,
+            **{k: v if isinstance(v, bool) else v + shift for k, v in phases.items() if k != "stored"},
+        }
     m["phases"] = phases
     return m
 
@@ -192,6 +204,7 @@ def measure_site(browser: Any, site: Path, compress: bool, runs: int) -> dict[st
     srv = CountingServer(site, compress)
     rows: dict[str, list[dict[str, Any]]] = {"cold": [], "warm": []}
     first: list[int] = []
+    snapshots: list[int] = []
     twice: Counter[str] = Counter()
     revalidated: list[int] = []
     try:
@@ -203,6 +216,7 @@ def measure_site(browser: Any, site: Path, compress: bool, runs: int) -> dict[st
             # the whole first visit: the page, the engine and the offline cache made complete
             page.wait_for_selector(".lb-engine[data-state*=offline]", timeout=120000)
             time.sleep(0.5)
+            snapshots.append(page.evaluate(SNAPSHOT_BYTES))
             first.append(srv.bytes)
             revalidated.append(srv.not_modified)
             for p, n in srv.bodies.items():
@@ -215,11 +229,14 @@ def measure_site(browser: Any, site: Path, compress: bool, runs: int) -> dict[st
     out: dict[str, Any] = {"runs": runs, "first_visit_bytes": statistics.median(first)}
     out["files_sent_twice"] = sorted(twice)
     out["revalidated_304"] = statistics.median(revalidated)
+    out["snapshot_bytes"] = statistics.median(snapshots)
     for visit, rs in rows.items():
         v: dict[str, Any] = {k: statistics.median(r[k] for r in rs) for k in ("fcp", "ready", "live")}
         ph = [r["phases"] for r in rs if r["phases"]]
         if ph:
-            v["phases"] = {k: statistics.median(p[k] for p in ph) for k in ph[0]}
+            v["restored"] = sum(1 for p in ph if p.get("restored") is True)
+            common = set.intersection(*(set(p) for p in ph)) - {"restored"}
+            v["phases"] = {k: statistics.median(p[k] for p in ph) for k in sorted(common)}
         out[visit] = v
     return out
 
@@ -250,7 +267,8 @@ def bench_engine(runs: int = 5, configs: dict[str, str] | None = None) -> dict[s
             folder = Path(d) / name
             build_s = build_demo(folder, options)
             row: dict[str, Any] = {"build_s": build_s, **site_bytes(folder / "site")}
-            for kind in ("gzip", "plain"):
+            # the other configurations are compared with the shipped one over the compressing server only
+            for kind in ("gzip", "plain") if name == "shipped" else ("gzip",):
                 row[kind] = measure_site(browser, folder / "site", kind == "gzip", runs)
             res[name] = row
         browser.close()
@@ -259,7 +277,11 @@ def bench_engine(runs: int = 5, configs: dict[str, str] | None = None) -> dict[s
 
 
 BEFORE = Path(__file__).resolve().parent / "engine_before.json"
-CONFIGS = {"shipped": "", "untrimmed": "      trim_stdlib: false\n"}
+CONFIGS = {
+    "shipped": "",
+    "untrimmed": "      trim_stdlib: false\n",
+    "no snapshot": "      engine_snapshot: false\n",
+}
 
 
 def _mb(n: float) -> str:
@@ -281,15 +303,19 @@ def report_lines(res: dict[str, Any]) -> list[str]:
         "`gzip` compresses text, JavaScript, JSON and wasm on the fly as typical static hosts do; "
         "`plain` sends files as they are.",
         "",
-        "| | before | now | now, untrimmed stdlib |",
-        "|---|---|---|---|",
+        "| | before | now | now, untrimmed stdlib | now, no snapshot |",
+        "|---|---|---|---|---|",
     ]
-    un = res.get("untrimmed")
+    others = [res.get("untrimmed"), res.get("no snapshot")]
 
     def row(label: str, get: Any) -> None:
-        b = get(before) if before else "—"
-        u = get(un) if un else "—"
-        lines.append(f"| {label} | {b} | {get(now)} | {u} |")
+        def cell(r: Any) -> str:
+            try:
+                return str(get(r)) if r else "—"
+            except KeyError:  # a configuration measured over the compressing server only
+                return "—"
+
+        lines.append(f"| {label} | {cell(before)} | {cell(now)} | {' | '.join(cell(o) for o in others)} |")
 
     for kind in ("gzip", "plain"):
         row(f"first visit, {kind} server", lambda r, k=kind: _mb(r[k]["first_visit_bytes"]))
@@ -305,21 +331,32 @@ def report_lines(res: dict[str, Any]) -> list[str]:
     for visit in ("cold", "warm"):
         row(f"engine ready, {visit} (gzip server)", lambda r, v=visit: f"{r['gzip'][v]['ready']:.0f} ms")
         row(f"first live result, {visit}", lambda r, v=visit: f"{r['gzip'][v]['live']:.0f} ms")
+    row(
+        "warm visits restored from the snapshot",
+        lambda r: f"{r['gzip']['warm']['restored']} of {r['gzip']['runs']}" if "restored" in r["gzip"]["warm"] else "—",
+    )
+    row(
+        "snapshot kept on the device (not sent)",
+        lambda r: _mb(r["gzip"]["snapshot_bytes"]) if "snapshot_bytes" in r["gzip"] else "—",
+    )
     lines += [
         "",
         "Start-up phases now (gzip server, ms from navigation start): worker created, its script running, "
-        "runtime started (wasm fetched and compiled, standard library mounted, Python up), core wheel on the path, "
-        "core imported.",
+        "runtime started (cold: wasm fetched and compiled, standard library mounted, Python up; warm: the same "
+        "with the snapshot's memory restored instead of Python started), core wheel in place, core imported "
+        "(cold; warm: in the snapshot), snapshot made (cold).",
         "",
-        "| visit | worker created | script | runtime | wheel | core imported | engine ready |",
-        "|---|---|---|---|---|---|---|",
+        "| visit | worker created | script | runtime | wheel | core imported | snapshot made | engine ready |",
+        "|---|---|---|---|---|---|---|---|",
     ]
     for visit in ("cold", "warm"):
         p = now["gzip"][visit].get("phases") or {}
         if p:
+            core = f"{p['core']:.0f}" if "core" in p else "—"
+            snap = f"{p['snapshot']:.0f}" if "snapshot" in p else "—"
             lines.append(
                 f"| {visit} | {p['spawn']:.0f} | {p['script']:.0f} | {p['runtime']:.0f} | {p['package']:.0f} | "
-                f"{p['imported']:.0f} | {now['gzip'][visit]['ready']:.0f} |"
+                f"{core} | {snap} | {now['gzip'][visit]['ready']:.0f} |"
             )
     return lines
 

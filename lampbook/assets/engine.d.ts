@@ -24,6 +24,8 @@ export interface Phases {
   package?: number;
   imported?: number;
   stored?: number;
+  /** the core imported, on a visit that starts Python (before the snapshot is made) */
+  core?: number;
   /** the snapshot of the started engine was made (a first visit; only where the build allows snapshots) */
   snapshot?: number;
   /** the engine was restored from the snapshot kept on the device */

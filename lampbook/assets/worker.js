@@ -104,6 +104,7 @@ const ready = (async () => {
       py.pyimport("sys").path.insert(0, where);
       phases.package = performance.now();
       api = py.pyimport("lampcalc.api");
+      phases.core = performance.now();
     } catch (e) {
       throw new Error("the core did not install: " + String(e instanceof Error && e.message ? e.message : e), { cause: e });
     }
