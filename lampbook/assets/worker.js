@@ -87,7 +87,7 @@ const ready = (async () => {
       await installCore(py); // the snapshot's sys.path names the wheel's place: it must be there again
       phases.package = performance.now();
       api = py.pyimport("lampcalc.api"); // imported in the snapshot: this only looks it up
-      if (py.runPython("import lampcalc; lampcalc.__version__") !== lock.packages.lampcalc.version)
+      if (py.pyimport("lampcalc").__version__ !== lock.packages.lampcalc.version)
         throw new Error("the snapshot holds another core");
       phases.restored = true;
     } catch (e) {
