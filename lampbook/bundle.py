@@ -176,7 +176,7 @@ def _rewrite_record(src: Path, dest: Path) -> None:
             zi = zipfile.ZipInfo(arc, _EPOCH)
             zi.compress_type = zipfile.ZIP_DEFLATED
             zi.external_attr = 0o644 << 16
-            out.writestr(zi, data)
+            out.writestr(zi, data, compresslevel=9)  # sent as it is: no server compresses a zip again
 
 
 def compile_wheel(wheel: Path, runtime: Path, cache_dir: Path) -> None:
@@ -185,7 +185,8 @@ def compile_wheel(wheel: Path, runtime: Path, cache_dir: Path) -> None:
     carries no source (the page never shows it: a traceback names file and line). The
     wheel is the engine's alone; the core's own distribution is built from calc/."""
     script = Path(__file__).resolve().parent / "assets" / "pycompile.mjs"
-    key = hashlib.sha256((sha256(wheel) + sha256(script) + PYODIDE_VERSION).encode()).hexdigest()[:20]
+    # the wheel as written here (sourceless, deflate level 9): a change of that form is a new key
+    key = hashlib.sha256((sha256(wheel) + sha256(script) + PYODIDE_VERSION + "sourceless-z9").encode()).hexdigest()[:20]
     cached = cache_dir / f"core-{key}.whl"
     if not cached.is_file():
         node = shutil.which("node")
@@ -538,7 +539,7 @@ def trim_stdlib(src: Path, dest: Path, used: list[str], keep: list[str]) -> dict
                 if info.filename in wanted:
                     zi = zipfile.ZipInfo(info.filename, _EPOCH)
                     zi.compress_type = zipfile.ZIP_DEFLATED
-                    out.writestr(zi, z.read(info))
+                    out.writestr(zi, z.read(info), compresslevel=9)  # sent as it is
     tmp.replace(dest)
     return {"files": len(wanted), "of": len(names), "bytes": dest.stat().st_size, "before": src.stat().st_size}
 
