@@ -176,8 +176,10 @@ export interface OperatingPoint {
   string_current_avg_A: number;
   input_power_W: number;
   led_power_W: number;
-  /** mains designs */
+  /** mains designs (a fraction) */
   power_factor?: number;
+  /** mains designs, 0-100 */
+  percent_flicker_pct?: number;
 }
 
 export interface CheckItem {
