@@ -362,3 +362,18 @@ def test_each_output_is_named_for_its_dimension(calc: typing.Any) -> None:
         assert got in want, f"{calc.name}.{o.name}: {o.dim} wants {' or '.join(want) or 'no suffix'}"
         if got == "" and o.dim in ("ratio", "count"):
             assert o.name in DIMENSIONLESS | UNIT_BESIDE, f"{calc.name}.{o.name}: not declared dimensionless"
+
+
+def test_a_calculator_block_carries_its_declared_data() -> None:
+    """The JSON a calculator block puts beside its form (lampbook/blocks.py) is the declared CalculatorBlock: the
+    page builds the form from ``declaration`` and shows ``answer`` until the engine answers."""
+    import re
+
+    from lampbook.blocks import parse_block, render
+
+    page = render(parse_block(1, "calculator: ripple\ncapacitance: 220 uF\n"), None)
+    found = re.search(r'<script type="application/json" class="lb-data">(.*?)</script>', page, re.S)
+    assert found
+    data = json.loads(found.group(1))
+    assert conforms(data, protocol.CalculatorBlock) == []
+    assert data["answer"] == ask({"calculator": "ripple", "inputs": {"capacitance": "220 uF"}})

@@ -115,6 +115,17 @@ class CalculatorDecl(TypedDict):
     main: list[str]
 
 
+class CalculatorBlock(TypedDict):
+    """What a calculator block in a page carries as JSON beside its form: the
+    declaration the page builds it from and the answer computed at build time
+    (shown until the engine answers)."""
+
+    id: str  # the block's element id, lb-<calculator>-<n>
+    calculator: str
+    declaration: CalculatorDecl
+    answer: "ComputeAnswer"
+
+
 class RegionPreset(TypedDict):
     voltage: str
     frequency: str

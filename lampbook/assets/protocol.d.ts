@@ -91,6 +91,15 @@ export interface CalculatorDecl {
   main: string[];
 }
 
+/** What a calculator block in a page carries as JSON beside its form: the declaration the page builds it from and the answer computed at build time (shown until the engine answers). */
+export interface CalculatorBlock {
+  /** the block's element id, lb-<calculator>-<n> */
+  id: string;
+  calculator: string;
+  declaration: CalculatorDecl;
+  answer: ComputeAnswer;
+}
+
 export interface RegionPreset {
   voltage: string;
   frequency: string;
