@@ -180,9 +180,10 @@ def _rewrite_record(src: Path, dest: Path) -> None:
 
 
 def compile_wheel(wheel: Path, runtime: Path, cache_dir: Path) -> None:
-    """Add to the core's WHEEL (in place) a .pyc beside each .py, compiled by Pyodide
-    itself, so the engine imports the core without compiling it (zipimport takes the
-    .pyc; the .py stays for tracebacks and for installers, which ignore the .pyc)."""
+    """Replace each .py of the core's WHEEL (in place) by its .pyc, compiled by Pyodide
+    itself, so the engine imports the core without compiling it and the first visit
+    carries no source (the page never shows it: a traceback names file and line). The
+    wheel is the engine's alone; the core's own distribution is built from calc/."""
     script = Path(__file__).resolve().parent / "assets" / "pycompile.mjs"
     key = hashlib.sha256((sha256(wheel) + sha256(script) + PYODIDE_VERSION).encode()).hexdigest()[:20]
     cached = cache_dir / f"core-{key}.whl"
@@ -193,7 +194,7 @@ def compile_wheel(wheel: Path, runtime: Path, cache_dir: Path) -> None:
         cache_dir.mkdir(parents=True, exist_ok=True)
         tmp = cached.with_suffix(".tmp")
         proc = subprocess.run(
-            [node, str(script), str(runtime), str(wheel), str(tmp), "--keep-source"],
+            [node, str(script), str(runtime), str(wheel), str(tmp), "--core"],
             capture_output=True,
             text=True,
             timeout=600,
@@ -242,6 +243,32 @@ def install_engine(
     return {p.name: sha256(p) for p in sorted(eng.iterdir())}
 
 
+def stamp_engine(site_dir: Path, snapshot: bool = True) -> str | None:
+    """Write into SITE/engine/pyodide-lock.json (key ``lampbook.engine``) a digest of the
+    engine as shipped (the runtime's files, the standard library as trimmed, the core's
+    wheel) and return it; with ``snapshot`` false, remove it and return None.
+
+    The page's worker keeps, on the device, a memory snapshot of the engine it started
+    (Python up, the core imported) under this digest, and restores it on later visits
+    instead of starting Python again; the service worker keeps only the snapshot of its
+    own build's engine. Call after the standard library is trimmed."""
+    eng = site_dir / "engine"
+    lock_file = eng / "pyodide-lock.json"
+    lock = json.loads(lock_file.read_text())
+    key = None
+    if snapshot:
+        h = hashlib.sha256(PYODIDE_VERSION.encode())
+        wheel = lock["packages"]["lampcalc"]["file_name"]
+        for name in (*RUNTIME_FILES, wheel):
+            h.update(name.encode() + b"\0" + bytes.fromhex(sha256(eng / name)))
+        key = h.hexdigest()[:24]
+        lock["lampbook"] = {"engine": key}
+    else:
+        lock.pop("lampbook", None)
+    lock_file.write_text(json.dumps(lock, indent=1, sort_keys=True))
+    return key
+
+
 SEARCH_BUNDLES = "assets/javascripts/lunr/"
 
 
@@ -287,9 +314,10 @@ def write_service_worker(
     site_dir: Path, template: str, languages: list[str] | None = None, source_maps: bool = False
 ) -> str:
     """Write SITE/sw.js: the precache list, the build's version (a digest of every
-    precached file), and the digests of the engine's files, by which the service
+    precached file), the digests of the engine's files, by which the service
     worker takes over the copies the engine has just downloaded instead of fetching
-    them again."""
+    them again, and the engine's digest (see :func:`stamp_engine`), whose snapshot
+    it keeps when it clears older builds' caches."""
     files = precache_list(site_dir, languages, source_maps)
     h = hashlib.sha256()
     digests = {}
@@ -300,7 +328,9 @@ def write_service_worker(
         if rel.startswith("engine/"):
             digests[rel] = d.hexdigest()
     version = h.hexdigest()[:16]
-    manifest = json.dumps({"version": version, "files": files, "digests": digests}, sort_keys=True)
+    lock = site_dir / "engine" / "pyodide-lock.json"
+    engine = json.loads(lock.read_text()).get("lampbook", {}).get("engine") if lock.is_file() else None
+    manifest = json.dumps({"version": version, "files": files, "digests": digests, "engine": engine}, sort_keys=True)
     (site_dir / "sw.js").write_text(template.replace("/*LAMPBOOK_PRECACHE*/null", manifest))
     return version
 
@@ -375,8 +405,8 @@ def write_compressed(site_dir: Path, cache_dir: Path | None = None, min_size: in
 
 def _wheel_modules(wheel: Path) -> list[str]:
     with zipfile.ZipFile(wheel) as z:
-        names = [n for n in z.namelist() if n.startswith("lampcalc/") and n.endswith(".py")]
-    return sorted(n[:-3].replace("/", ".").removesuffix(".__init__") for n in names)
+        names = [n for n in z.namelist() if n.startswith("lampcalc/") and n.endswith((".py", ".pyc"))]
+    return sorted({n.removesuffix("c")[:-3].replace("/", ".").removesuffix(".__init__") for n in names})
 
 
 @functools.lru_cache(maxsize=4096)

@@ -208,16 +208,42 @@ def test_rebuilt_site_replaces_the_cache(tmp_path: Path, browser: object) -> Non
     with built_and_served(folder) as srv:
         v = Visit(browser, srv.url)
         v.first_visit()
-        first = v.page.evaluate("caches.keys()")
+        # the site's cache, and the snapshot of its engine (kept while the engine's files stay the same)
+        snapshot = (
+            "lampbook-snapshot-"
+            + json.loads((folder / "site" / "engine" / "pyodide-lock.json").read_text())["lampbook"]["engine"]
+        )
+        v.until(f"caches.keys().then(k => k.length === 2 && k.includes({json.dumps(snapshot)}))")
+        first = [k for k in v.page.evaluate("caches.keys()") if k != snapshot]
         (folder / "docs" / "index.md").write_text("# Two\n\n```lampbook\ncalculator: preferred\nvalue: 330\n```\n")
         assert build(folder).returncode == 0
         v.page.evaluate("navigator.serviceWorker.getRegistration().then(r => r.update())")
-        v.until(f"caches.keys().then(k => k.length === 1 && k[0] !== {json.dumps(first[0])})")
+        v.until(
+            f"caches.keys().then(k => k.length === 2 && k.includes({json.dumps(snapshot)})"
+            f" && !k.includes({json.dumps(first[0])}))"
+        )
         v.page.reload()
         assert v.page.locator("h1").inner_text() == "Two"
         v.ctx.set_offline(True)
         v.page.reload()
         assert v.page.locator("h1").inner_text() == "Two"
+        v.ctx.set_offline(False)
+        # a build whose engine keeps no snapshot: the old snapshot goes with the old cache, and none is made
+        write_site(
+            folder,
+            {"index.md": "# Three\n\n```lampbook\ncalculator: preferred\n```\n"},
+            extra="      engine_snapshot: false\n",
+        )
+        assert build(folder).returncode == 0
+        assert "lampbook" not in json.loads((folder / "site" / "engine" / "pyodide-lock.json").read_text())
+        v.page.evaluate("navigator.serviceWorker.getRegistration().then(r => r.update())")
+        v.until(f"caches.keys().then(k => k.length === 1 && !k.includes({json.dumps(snapshot)}))")
+        v.page.reload()
+        assert v.page.locator("h1").inner_text() == "Three"
+        v.ready()
+        phases = next(w for w in v.page.workers if w.url.endswith("worker.js")).evaluate("self.lbPhases")
+        assert "snapshot" not in phases and not phases.get("restored"), phases
+        assert v.page.evaluate("caches.keys()") == [k for k in v.page.evaluate("caches.keys()") if "snapshot" not in k]
 
 
 def test_open_design_from_device(demo: tuple[Path, Server], browser: object) -> None:

@@ -74,3 +74,79 @@ def test_first_visit_sends_each_file_once(served: CountingServer) -> None:
             assert "lampbook-staged" not in page.evaluate("caches.keys()")  # handed over, then dropped
         finally:
             b.close()
+
+
+def _phases(page: object) -> dict[str, object]:
+    for w in page.workers:  # type: ignore[attr-defined]
+        if w.url.endswith("worker.js"):
+            return dict(w.evaluate("self.lbPhases"))
+    raise AssertionError("no engine worker")
+
+
+def _answers(page: object) -> list[str]:
+    """The live answer of the page's calculator, row by row, once the engine has computed it."""
+    page.wait_for_function(  # type: ignore[attr-defined]
+        "Number(document.querySelector('#lb-dropper-1').dataset.computed || 0) > 0", timeout=60000
+    )
+    rows: list[str] = page.eval_on_selector_all("#lb-dropper-1 tr[data-out]", "rs => rs.map(r => r.innerText)")  # type: ignore[attr-defined]
+    assert len(rows) > 5
+    return rows
+
+
+def test_later_visits_restore_the_engine_from_its_snapshot(served: CountingServer, tmp_path: Path) -> None:
+    """The first visit starts Python and imports the core, and keeps a memory snapshot of that engine on the
+    device under the digest of the engine's files; later visits restore it and answer exactly as the first.
+    A snapshot that cannot be used is dropped: the engine starts afresh and makes a new one."""
+    import json
+
+    from playwright.sync_api import sync_playwright
+
+    lock = json.loads((tmp_path / "site" / "engine" / "pyodide-lock.json").read_text())
+    cache = "lampbook-snapshot-" + lock["lampbook"]["engine"]
+    snapshot_size = (
+        f"caches.open({json.dumps(cache)}).then(c => c.match(new URL('engine/lampbook-snapshot.bin', location.href)))"
+        ".then(r => r ? r.arrayBuffer() : null).then(b => b ? b.byteLength : 0)"
+    )
+    with sync_playwright() as p:
+        b = launch(p)
+        try:
+            ctx = b.new_context(service_workers="allow")
+            page = ctx.new_page()
+            page.goto(served.url)
+            page.wait_for_selector(".lb-engine[data-state*=offline]", timeout=180000)
+            first = _answers(page)
+            ph = _phases(page)
+            assert not ph.get("restored") and "snapshot" in ph, ph
+            # kept by the service worker when it cleared the caches of other builds
+            keys = page.evaluate("caches.keys()")
+            assert cache in keys and len(keys) == 2, keys
+            assert page.evaluate(snapshot_size) > 8_000_000
+            page.reload()
+            page.wait_for_selector(".lb-engine[data-state^=ready]", timeout=180000)
+            assert _phases(page).get("restored") is True
+            assert _answers(page) == first
+            # a change of inputs is computed by the restored engine
+            page.fill("#lb-dropper-1 [name=capacitance]", "1.5 uF")
+            page.wait_for_function(
+                "Number(document.querySelector('#lb-dropper-1').dataset.computed || 0) > 1", timeout=60000
+            )
+            assert page.eval_on_selector_all("#lb-dropper-1 tr[data-out]", "rs => rs.map(r => r.innerText)") != first
+            # a broken snapshot: the engine starts afresh, answers, and keeps a good snapshot again
+            page.evaluate(
+                f"caches.open({json.dumps(cache)}).then(c => c.put(new URL('engine/lampbook-snapshot.bin',"
+                " location.href), new Response(new Uint8Array(4096))))"
+            )
+            page.reload()
+            page.wait_for_selector(".lb-engine[data-state^=ready]", timeout=180000)
+            assert not _phases(page).get("restored")
+            assert _answers(page) == first
+            deadline = 60
+            while page.evaluate(snapshot_size) < 8_000_000 and deadline:
+                page.wait_for_timeout(500)
+                deadline -= 1
+            page.reload()
+            page.wait_for_selector(".lb-engine[data-state^=ready]", timeout=180000)
+            assert _phases(page).get("restored") is True
+            assert _answers(page) == first
+        finally:
+            b.close()

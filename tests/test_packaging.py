@@ -80,3 +80,29 @@ def test_stdlib_measurement_runs_one_design_per_shape_and_keeps_its_key_across_e
     first.write_text(first.read_text(encoding="utf-8") + '\n[extra_table]\nnote = "x"\n', encoding="utf-8")
     assert exercise(wheel, files, texts=False) != key
     assert design_shape("[not toml") != design_shape("[still not toml")
+
+
+def test_engine_digest_follows_every_file_the_engine_ships(tmp_path: Path) -> None:
+    """The digest under which a page keeps its engine's memory snapshot changes with any file of the
+    engine (so a snapshot is never restored over other files), and only with them."""
+    import json
+
+    from sites import RUNTIME
+
+    from lampbook import bundle
+
+    bundle.install_engine(tmp_path, RUNTIME)
+    eng = tmp_path / "engine"
+    lock = eng / "pyodide-lock.json"
+    key = bundle.stamp_engine(tmp_path)
+    assert key and json.loads(lock.read_text())["lampbook"] == {"engine": key}
+    assert bundle.stamp_engine(tmp_path) == key  # the lock file itself is not part of it
+    wheel = json.loads(lock.read_text())["packages"]["lampcalc"]["file_name"]
+    for name in (*bundle.RUNTIME_FILES, wheel):
+        data = (eng / name).read_bytes()
+        (eng / name).write_bytes(data + b"\0")
+        assert bundle.stamp_engine(tmp_path) != key, name
+        (eng / name).write_bytes(data)
+    assert bundle.stamp_engine(tmp_path) == key
+    assert bundle.stamp_engine(tmp_path, snapshot=False) is None
+    assert "lampbook" not in json.loads(lock.read_text())

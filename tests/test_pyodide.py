@@ -70,7 +70,10 @@ def test_every_core_test_file_is_found() -> None:
     assert not native_only(ast.parse((ROOT / "tests" / "test_plan.py").read_text(encoding="utf-8")))
 
 
-def test_core_suite_inside_the_trimmed_engine(tmp_path: Path) -> None:
+@pytest.mark.parametrize("start", ["started", "restored"])
+def test_core_suite_inside_the_trimmed_engine(tmp_path: Path, start: str) -> None:
+    """Every core test in the engine the site ships, started as on a first visit (Python started, the
+    core imported) and as on every later one (restored from the memory snapshot the first made)."""
     files = core_test_files()
     native = subprocess.run(
         [sys.executable, "-m", "pytest", "--collect-only", "-q", "-p", "no:cacheprovider", *files],
@@ -101,6 +104,7 @@ def test_core_suite_inside_the_trimmed_engine(tmp_path: Path) -> None:
             "--engine",
             str(tmp_path / "engine"),
             str(full),
+            *(["--restored"] if start == "restored" else []),
             *files,
         ],
         capture_output=True,
@@ -110,6 +114,10 @@ def test_core_suite_inside_the_trimmed_engine(tmp_path: Path) -> None:
     )
     out = r.stdout + r.stderr
     assert "emscripten" in out, out[-3000:]
+    if start == "restored":
+        # a snapshot holds the whole memory of the started engine (tens of MB), the core in it
+        m = re.search(r"restored from a snapshot of (\d+) bytes; lampcalc.api already imported: true", out)
+        assert m and int(m.group(1)) > 8_000_000, out[-3000:]
     assert re.search(r"trimmed library: \d+ core modules imported, \d+ calculators answered", out), out[-3000:]
     assert "lampcalc from /lib/lampcalc-" in out, out[-3000:]  # the wheel itself, as the page imports it
     assert "core imports outside the trimmed library: []" in out, out[-3000:]

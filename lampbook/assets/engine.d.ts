@@ -24,6 +24,10 @@ export interface Phases {
   package?: number;
   imported?: number;
   stored?: number;
+  /** the snapshot of the started engine was made (a first visit; only where the build allows snapshots) */
+  snapshot?: number;
+  /** the engine was restored from the snapshot kept on the device */
+  restored?: boolean;
 }
 
 /** The engine the page's head started early (the plugin writes that script), and what it heard before widget.js took over. */

@@ -1,9 +1,11 @@
 // Byte-compile Python files in a zip with Pyodide itself (build time, on Node).
-// usage: node pycompile.mjs PYODIDE_DIR IN_ZIP OUT_ZIP [--keep-source]
+// usage: node pycompile.mjs PYODIDE_DIR IN_ZIP OUT_ZIP [--keep-source | --core]
 // Each .py becomes a sourceless .pyc (unchecked-hash, so no timestamps) at the same path;
 // with --keep-source the .py stays beside it (zipimport prefers the .pyc and tracebacks
-// still show the source). Files that do not compile are kept as source. The output is
-// deterministic.
+// still show the source). The standard library's code objects name their files where the
+// runtime keeps that library (/lib/python3.14/...); with --keep-source or --core (the core's
+// wheel) they name them by their place in the zip. Files that do not compile are kept as
+// source. The output is deterministic.
 import { readFileSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
 import { pathToFileURL } from "node:url";
@@ -14,6 +16,7 @@ const { loadPyodide } = await import(pathToFileURL(join(dir, "pyodide.mjs")).hre
 const py = await loadPyodide({ indexURL: dir.endsWith("/") ? dir : dir + "/" });
 py.FS.writeFile("/tmp/in.zip", readFileSync(inZip));
 py.globals.set("keep_source", flag === "--keep-source");
+py.globals.set("prefix", flag === "--keep-source" || flag === "--core" ? "" : "/lib/python3.14/");
 const kept = py.runPython(`
 import importlib.util, importlib._bootstrap_external as ext, zipfile
 kept = []
@@ -27,7 +30,7 @@ with zipfile.ZipFile("/tmp/in.zip") as src, zipfile.ZipFile("/tmp/out.zip", "w",
         data = src.read(info)
         name = info.filename
         if name.endswith(".py"):
-            where = ("/lib/python3.14/" if not keep_source else "") + name
+            where = prefix + name
             try:
                 code = compile(data, where, "exec", dont_inherit=True)
             except SyntaxError:

@@ -3,12 +3,14 @@
 // The file list, the version and the digests of the engine's files are written at build time;
 // a new build gets a new cache as a whole.
 const PRECACHE = /*LAMPBOOK_PRECACHE*/null;
-/** @type {{version: string, files: string[], digests: Record<string, string>}} */
+/** @type {{version: string, files: string[], digests: Record<string, string>, engine: string | null}} */
 const manifest = /** @type {any} */ (PRECACHE);
 /** this script's global scope (the WebWorker library types `self` as any worker's) */
 const sw = /** @type {ServiceWorkerGlobalScope} */ (/** @type {unknown} */ (self));
 const CACHE = "lampbook-" + manifest.version;
 const STAGED = "lampbook-staged"; // the engine's own downloads, handed over by its worker
+// the started engine's memory snapshot, kept on the device by its worker (worker.js), for this build's engine only
+const SNAPSHOT = manifest.engine ? "lampbook-snapshot-" + manifest.engine : null;
 const scope = sw.registration.scope;
 
 /** @param {Response} response */
@@ -46,7 +48,7 @@ sw.addEventListener("install", (event) => {
 sw.addEventListener("activate", (event) => {
   event.waitUntil(
     caches.keys()
-      .then((keys) => Promise.all(keys.filter((k) => k.startsWith("lampbook-") && k !== CACHE).map((k) => caches.delete(k))))
+      .then((keys) => Promise.all(keys.filter((k) => k.startsWith("lampbook-") && k !== CACHE && k !== SNAPSHOT).map((k) => caches.delete(k))))
       .then(() => sw.clients.claim()),
   );
 });

@@ -40,29 +40,95 @@ self.fetch = async (input, init) => {
   return response;
 };
 
-const ready = (async () => {
-  const py = await loadPyodide({ indexURL: base, lockFileURL: base + "pyodide-lock.json", fullStdLib: false });
-  phases.runtime = performance.now(); // wasm fetched and compiled, standard library mounted, Python started
+// A memory snapshot of the started engine (Python up, the core imported), kept on the device under the
+// digest of the engine's files that the build writes into the lock file. A later visit restores it instead of
+// starting Python and importing the core again. The snapshot never leaves the device; the service worker keeps
+// only the one of its own build's engine. Anything wrong with it (unreadable, another runtime, a restored engine
+// that does not answer): it is deleted and the engine starts afresh.
+const SNAPSHOT_URL = base + "lampbook-snapshot.bin";
+/** @type {Uint8Array | null} made on this visit, stored once the page has its answer */
+let madeSnapshot = null;
+/** @type {string | null} */
+let snapshotCache = null;
+
+/** @param {string} name the kept snapshot's response (its body is read while the runtime loads), or null */
+async function snapshotFrom(name) {
+  if (!(await caches.has(name))) return null;
+  return (await (await caches.open(name)).match(SNAPSHOT_URL)) ?? null;
+}
+
+/** @param {import("pyodide").PyodideAPI} py */
+async function installCore(py) {
   // the core's wheel (byte-compiled by the build) is imported as it is, a zip on sys.path:
   // no unpacking; the lock file's digest guards the download
-  try {
-    const entry = py.lockfile.packages.lampcalc;
-    const sri = "sha256-" + btoa(String.fromCharCode(...(entry.sha256.match(/../g) ?? []).map((h) => parseInt(h, 16))));
-    const response = await fetch(base + entry.file_name, { integrity: sri });
-    if (!response.ok) throw new Error(entry.file_name + ": HTTP " + response.status);
-    const where = "/lib/" + entry.file_name;
-    py.FS.writeFile(where, new Uint8Array(await response.arrayBuffer()));
-    py.pyimport("sys").path.insert(0, where);
-    phases.package = performance.now();
-    api = py.pyimport("lampcalc.api");
-  } catch (e) {
-    throw new Error("the core did not install: " + String(e instanceof Error && e.message ? e.message : e), { cause: e });
+  const entry = py.lockfile.packages.lampcalc;
+  const sri = "sha256-" + btoa(String.fromCharCode(...(entry.sha256.match(/../g) ?? []).map((h) => parseInt(h, 16))));
+  const response = await fetch(base + entry.file_name, { integrity: sri });
+  if (!response.ok) throw new Error(entry.file_name + ": HTTP " + response.status);
+  const where = "/lib/" + entry.file_name;
+  py.FS.writeFile(where, new Uint8Array(await response.arrayBuffer()));
+  return where;
+}
+
+const ready = (async () => {
+  const lockResponse = await fetch(base + "pyodide-lock.json");
+  if (!lockResponse.ok) throw new Error("pyodide-lock.json: HTTP " + lockResponse.status);
+  /** @type {import("pyodide").Lockfile & {lampbook?: {engine?: string}}} */
+  const lock = await lockResponse.json();
+  const options = { indexURL: base, lockFileContents: lock, packageBaseUrl: base, fullStdLib: false };
+  snapshotCache = lock.lampbook?.engine && self.caches ? "lampbook-snapshot-" + lock.lampbook.engine : null;
+  const saved = snapshotCache ? await snapshotFrom(snapshotCache).catch(() => null) : null;
+  /** @type {import("pyodide").PyodideAPI | null} */
+  let py = null;
+  if (saved) {
+    try {
+      py = await loadPyodide({ ...options, _loadSnapshot: saved.arrayBuffer().then((b) => new Uint8Array(b)) });
+      phases.runtime = performance.now();
+      await installCore(py); // the snapshot's sys.path names the wheel's place: it must be there again
+      phases.package = performance.now();
+      api = py.pyimport("lampcalc.api"); // imported in the snapshot: this only looks it up
+      if (py.runPython("import lampcalc; lampcalc.__version__") !== lock.packages.lampcalc.version)
+        throw new Error("the snapshot holds another core");
+      phases.restored = true;
+    } catch (e) {
+      console.warn("lampbook: the engine's snapshot was not usable; starting afresh:", e);
+      py = api = null;
+      if (snapshotCache) await caches.delete(snapshotCache).catch(() => false);
+    }
+  }
+  if (!py) {
+    py = await loadPyodide({ ...options, _makeSnapshot: Boolean(snapshotCache) });
+    phases.runtime = performance.now(); // wasm fetched and compiled, standard library mounted, Python started
+    try {
+      const where = await installCore(py);
+      py.pyimport("sys").path.insert(0, where);
+      phases.package = performance.now();
+      api = py.pyimport("lampcalc.api");
+    } catch (e) {
+      throw new Error("the core did not install: " + String(e instanceof Error && e.message ? e.message : e), { cause: e });
+    }
+    if (snapshotCache) {
+      // taken here, before any request has run, so every later visit starts from exactly this state
+      try {
+        madeSnapshot = py.makeMemorySnapshot();
+      } catch (e) {
+        console.warn("lampbook: no snapshot of the engine:", e);
+      }
+      phases.snapshot = performance.now();
+    }
   }
   phases.imported = performance.now();
   return true;
 })();
 
 async function store() {
+  try {
+    const snapshot = madeSnapshot;
+    madeSnapshot = null;
+    if (snapshot && snapshotCache) await (await caches.open(snapshotCache)).put(SNAPSHOT_URL, new Response(/** @type {Uint8Array<ArrayBuffer>} */ (snapshot)));
+  } catch (e) {
+    // no room: later visits start the engine afresh
+  }
   try {
     if (!self.caches || !fetched.length) return;
     const staged = await caches.open("lampbook-staged");

@@ -238,6 +238,7 @@ class LampbookPlugin(BasePlugin[LampbookConfig]):  # type: ignore[no-untyped-cal
                 )
                 t = bundle.trim_engine_stdlib(site, cache, list(self.config.stdlib_modules), designs)
                 log.info("standard library trimmed to %d of %d files (%d bytes)", t["files"], t["of"], t["bytes"])
+            bundle.stamp_engine(site, self.config.engine_snapshot)
         except bundle.BundleError as e:
             raise PluginError(f"lampbook: {e}") from None
         langs = self.config.precache_search_languages

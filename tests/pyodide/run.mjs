@@ -1,11 +1,15 @@
 // Run the core's own tests inside Pyodide on Node, from the npm package the site ships.
-// usage: node run.mjs PYODIDE_DIR WHEELS_DIR LAMPCALC_WHEEL TESTS_DIR [--engine ENGINE_DIR FULL_STDLIB] TEST_FILE...
+// usage: node run.mjs PYODIDE_DIR WHEELS_DIR LAMPCALC_WHEEL TESTS_DIR [--engine ENGINE_DIR FULL_STDLIB [--restored]] TEST_FILE...
 // (with --engine, LAMPBOOK_CORE_MODULES in the environment lists the core's modules as JSON)
 // With --engine, the engine is the site's: its trimmed standard library, its core wheel
 // imported as a zip on sys.path (as the page's worker does). Every module of the core is
 // imported and the core answers before anything else is there; only then is the rest of
 // the standard library (FULL_STDLIB) put behind it for the test machinery, and any module
 // the core itself imports from that rest is reported and fails the run.
+// With --restored, the engine is started as the page's worker starts it on a later visit: a first
+// engine is started with snapshots allowed, the core's wheel put on sys.path and lampcalc.api imported
+// (exactly as worker.js does), its memory snapshot made; the tests then run in a second engine restored
+// from that snapshot (the wheel written to its place again), never in the first.
 import { readFileSync, readdirSync } from "node:fs";
 import { join, basename } from "node:path";
 import { pathToFileURL } from "node:url";
@@ -18,16 +22,33 @@ if (args[0] === "--engine") {
   const [, engine, full] = args.splice(0, 3);
   siteEngine = { engine, full };
 }
+const restored = args[0] === "--restored";
+if (restored) args.shift();
 const files = args;
 /** @type {typeof import("pyodide")} the runtime the site ships, loaded from its folder */
 const { loadPyodide } = await import(pathToFileURL(join(dir, "pyodide.mjs")).href);
 /** @type {Parameters<typeof loadPyodide>[0]} */
 const opts = { indexURL: dir.endsWith("/") ? dir : dir + "/" };
 if (siteEngine) opts.stdLibURL = join(siteEngine.engine, "python_stdlib.zip");
-const py = await loadPyodide(opts);
-if (siteEngine) {
+/** @type {Awaited<ReturnType<typeof loadPyodide>>} */
+let py;
+if (restored) {
+  const first = await loadPyodide({ ...opts, _makeSnapshot: true });
+  first.FS.writeFile("/lib/" + basename(core), new Uint8Array(readFileSync(core)));
+  first.pyimport("sys").path.insert(0, "/lib/" + basename(core));
+  first.pyimport("lampcalc.api");
+  const snapshot = first.makeMemorySnapshot();
+  py = await loadPyodide({ ...opts, _loadSnapshot: snapshot });
   py.FS.writeFile("/lib/" + basename(core), new Uint8Array(readFileSync(core)));
-  py.pyimport("sys").path.insert(0, "/lib/" + basename(core));
+  console.log(`restored from a snapshot of ${snapshot.length} bytes; lampcalc.api already imported: ${py.runPython("import sys; 'lampcalc.api' in sys.modules")}`);
+} else {
+  py = await loadPyodide(opts);
+}
+if (siteEngine) {
+  if (!restored) {
+    py.FS.writeFile("/lib/" + basename(core), new Uint8Array(readFileSync(core)));
+    py.pyimport("sys").path.insert(0, "/lib/" + basename(core));
+  }
   // the core's module names (LAMPBOOK_CORE_MODULES, a JSON list): nothing but the core may load stdlib here
   const listed = process.env.LAMPBOOK_CORE_MODULES;
   if (!listed) throw new Error("--engine needs LAMPBOOK_CORE_MODULES: the core's modules as a JSON list");
