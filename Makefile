@@ -57,6 +57,7 @@ lint: $(DEPS) $(NODE)
 	$(BIN)/python -m lampbook.protocoltypes --check
 	node_modules/.bin/tsc --noEmit -p .
 	node_modules/.bin/tsc --noEmit -p tsconfig.worker.json
+	node_modules/.bin/tsc --noEmit -p tsconfig.node.json
 
 test: $(DEPS) $(NODE) $(SYSTEM) $(WHEELS) lint
 	$(BIN)/python -m pytest

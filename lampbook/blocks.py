@@ -7,8 +7,9 @@ import json
 import re
 from dataclasses import dataclass, field
 
-from lampcalc.api import compute
+from lampcalc.api import answer
 from lampcalc.calculators import CALCULATORS
+from lampcalc.protocol import CalculatorBlock, ComputeAnswer
 from lampcalc.schema import Param, describe, region_presets
 
 from .workbench import WorkbenchError, render_workbench
@@ -86,15 +87,21 @@ def parse_block(index: int, body: str) -> Block:
     for k in (*inputs, *locked):
         if k not in known:
             raise BlockError(index, k, f"not an input of {calc}; expected one of " + ", ".join(sorted(known)))
-    ans = compute(calc, inputs)
+    _answer(index, calc, inputs)
+    return Block(index, calc, inputs, locked, title)
+
+
+def _answer(index: int, calc: str, inputs: dict[str, str]) -> ComputeAnswer:
+    """The block's answer from the core's typed entry point; a refusal is the block's error."""
+    ans = answer(calc, inputs)
     if not ans["ok"]:
         e = ans["errors"][0]
         raise BlockError(
             index,
             e["field"] or "inputs",
-            f"got {e['value']}; expected {e['expected']}" if e.get("expected") else e["message"],
+            f"got {e['value']}; expected {e['expected']}" if e["expected"] else e["message"],
         )
-    return Block(index, calc, inputs, locked, title)
+    return ans
 
 
 def _esc(s: object) -> str:
@@ -105,7 +112,7 @@ def render(block: Block, safety_url: str | None) -> str:
     """The form, its prerendered answer and its declaration as JSON."""
     calc = CALCULATORS[block.calculator]
     desc = describe(calc)
-    ans = compute(calc.name, block.inputs)
+    ans = _answer(block.index, calc.name, block.inputs)
     bid = f"lb-{block.calculator}-{block.index}"
     mode_value = block.inputs.get(calc.mode, calc.param(calc.mode).default) if calc.mode else None
     all_modes = " ".join(calc.param(calc.mode).choices) if calc.mode else ""
@@ -167,7 +174,7 @@ def render(block: Block, safety_url: str | None) -> str:
     )
     outs = []
     for o in calc.outputs:
-        shown = ans["display"][o.name]
+        reads = ans["display"][o.name]
         outs.append(
             f'<tr data-out="{_esc(o.name)}"{"" if o.name in ans["applies"] else " hidden"}'
             # words wrap; a number with its unit never does
@@ -176,7 +183,7 @@ def render(block: Block, safety_url: str | None) -> str:
                 if o.dim == "text"
                 else (' class="lb-na">' if ans["values"].get(o.name) is None else ">")
             )
-            + f"<th>{_esc(o.label)}</th><td>{_esc(shown)}</td></tr>"
+            + f"<th>{_esc(o.label)}</th><td>{_esc(reads)}</td></tr>"
         )
     has_imperial = any(p.imperial for p in calc.params)
     caution = ""
@@ -188,11 +195,8 @@ def render(block: Block, safety_url: str | None) -> str:
             f"Local codes and licensed practice decide.{link}</p>"
         )
     title = block.title or calc.title
-    payload = json.dumps(
-        {"id": bid, "calculator": calc.name, "declaration": desc, "answer": ans},
-        sort_keys=True,
-        ensure_ascii=False,
-    )
+    data: CalculatorBlock = {"id": bid, "calculator": calc.name, "declaration": desc, "answer": ans}
+    payload = json.dumps(data, sort_keys=True, ensure_ascii=False)
     payload = payload.replace("</", "<\\/")
     return (
         f'<div class="lb-calc" id="{bid}" data-calculator="{_esc(calc.name)}">\n'

@@ -82,7 +82,7 @@ def _report(ans: dict[str, Any], written: str | None) -> str:
                 fv(f["input_power_W"], "power") if "input_power_W" in f else "-",
                 f"{f['power_factor']:.2f}" if "power_factor" in f else "-",
                 f"{f['efficiency']:.0%}" if "efficiency" in f else "-",
-                f"{f['percent_flicker']:.1f} %" if "percent_flicker" in f else "-",
+                f"{f['percent_flicker_pct']:.1f} %" if "percent_flicker_pct" in f else "-",
                 verdict + (f" ({len(p['warned'])} warnings)" if p["warned"] else ""),
             ]
         )

@@ -90,16 +90,16 @@ class Visit:
 
 
 CASES = [
-    ("calculators/dropper/", "lb-dropper-1", "dropper", {"capacitance": "2.2 uF"}, "led_current_avg"),
+    ("calculators/dropper/", "lb-dropper-1", "dropper", {"capacitance": "2.2 uF"}, "led_current_avg_A"),
     ("calculators/dropper/", "lb-dropper-2", "dropper", {"stock_capacitance": "0.47 uF"}, "bank_count"),
     ("calculators/strings/", "lb-string-1", "string", {"supply_voltage": "36 V"}, "series"),
     ("calculators/strings/", "lb-string-1", "string", {"supply": "cc", "driver_current": "700 mA"}, "parallel"),
-    ("calculators/ripple/", "lb-ripple-1", "ripple", {"capacitance": "470 uF"}, "ripple_pp"),
-    ("calculators/wire/", "lb-wire-1", "wire", {"size": "14 AWG"}, "drop"),
-    ("calculators/light/", "lb-light-1", "light", {"distance": "5 m"}, "illuminance_axis"),
+    ("calculators/ripple/", "lb-ripple-1", "ripple", {"capacitance": "470 uF"}, "ripple_pp_V"),
+    ("calculators/wire/", "lb-wire-1", "wire", {"size": "14 AWG"}, "drop_V"),
+    ("calculators/light/", "lb-light-1", "light", {"distance": "5 m"}, "illuminance_axis_lx"),
     ("calculators/camera/", "lb-camera-1", "camera", {"shutter_angle": "90°"}, "variation"),
     ("calculators/harmonics/", "lb-harmonics-1", "harmonics", {"h3": "40 %"}, "verdict"),
-    ("calculators/module/", "lb-module-1", "module", {"current": "50 mA"}, "vf"),
+    ("calculators/module/", "lb-module-1", "module", {"current": "50 mA"}, "vf_V"),
     ("calculators/preferred/", "lb-preferred-1", "preferred", {"value": "5000"}, "nearest"),
 ]
 
@@ -163,7 +163,7 @@ def test_error_shows_beside_field(demo: tuple[Path, Server], browser: object, va
 def test_prerendered_answer_without_javascript(demo: tuple[Path, Server], browser: object) -> None:
     v = Visit(browser, demo[1].url, java_script_enabled=False)
     v.open("calculators/dropper/")
-    assert v.out("lb-dropper-1", "led_current_avg") == compute("dropper", {})["display"]["led_current_avg"]
+    assert v.out("lb-dropper-1", "led_current_avg_A") == compute("dropper", {})["display"]["led_current_avg_A"]
 
 
 def test_offline_after_one_visit(demo: tuple[Path, Server], browser: object) -> None:
@@ -174,13 +174,14 @@ def test_offline_after_one_visit(demo: tuple[Path, Server], browser: object) -> 
     v.ready()
     v.set("lb-ripple-1", "capacitance", "1000 uF")
     assert (
-        v.out("lb-ripple-1", "ripple_pp") == compute("ripple", block_inputs(v, "lb-ripple-1"))["display"]["ripple_pp"]
+        v.out("lb-ripple-1", "ripple_pp_V")
+        == compute("ripple", block_inputs(v, "lb-ripple-1"))["display"]["ripple_pp_V"]
     )
     # another page, never opened, from the precache
     v.open("calculators/wire/")
     v.ready()
     v.set("lb-wire-1", "length", "20 m")
-    assert v.out("lb-wire-1", "drop") == compute("wire", block_inputs(v, "lb-wire-1"))["display"]["drop"]
+    assert v.out("lb-wire-1", "drop_V") == compute("wire", block_inputs(v, "lb-wire-1"))["display"]["drop_V"]
     assert not v.foreign
 
 
@@ -189,8 +190,8 @@ def test_share_link_restores_inputs(demo: tuple[Path, Server], browser: object) 
     v.open("calculators/dropper/?lb=lb-dropper-1&capacitance=3.3%20uF&bus_voltage=120%20V#lb-dropper-1")
     v.ready()
     v.computed("lb-dropper-1", 0)
-    expected = compute("dropper", {"capacitance": "3.3 uF", "bus_voltage": "120 V"})["display"]["led_current_avg"]
-    assert v.out("lb-dropper-1", "led_current_avg") == expected
+    expected = compute("dropper", {"capacitance": "3.3 uF", "bus_voltage": "120 V"})["display"]["led_current_avg_A"]
+    assert v.out("lb-dropper-1", "led_current_avg_A") == expected
     # a hostile link: the value is escaped, validated like any input, and the error shows beside its field
     v.open("calculators/dropper/?lb=lb-dropper-1&capacitance=%3Cimg%20src%3Dx%20onerror%3Dalert(1)%3E&region=%22%3E")
     v.page.wait_for_selector("#lb-dropper-1 .lb-field.lb-bad .lb-err:has-text('expected a capacitance')", timeout=30000)
@@ -291,7 +292,9 @@ def test_scaffolded_handbook_works_offline(tmp_path: Path, browser: object) -> N
         box = v.page.locator(".lb-calc").first.get_attribute("id")
         assert box
         v.set(box, "capacitance", "0.47 uF")
-        assert v.out(box, "led_current_avg") == compute("dropper", block_inputs(v, box))["display"]["led_current_avg"]
+        assert (
+            v.out(box, "led_current_avg_A") == compute("dropper", block_inputs(v, box))["display"]["led_current_avg_A"]
+        )
         assert not v.foreign
 
 
@@ -391,7 +394,7 @@ def test_offline_status_in_a_secure_context(demo: tuple[Path, Server], browser: 
     v.open("calculators/module/")
     v.ready()
     v.set("lb-module-1", "current", "30 mA")
-    assert v.out("lb-module-1", "vf") == compute("module", block_inputs(v, "lb-module-1"))["display"]["vf"]
+    assert v.out("lb-module-1", "vf_V") == compute("module", block_inputs(v, "lb-module-1"))["display"]["vf_V"]
     assert not v.foreign
 
 
@@ -435,18 +438,18 @@ def test_outputs_follow_the_unit_switch(demo: tuple[Path, Server], browser: obje
     inputs = block_inputs(v, box)
     assert inputs["size"] == "18 AWG", inputs
     ans = compute("wire", inputs)
-    area, diameter = v.out(box, "area"), v.out(box, "diameter")
+    area, diameter = v.out(box, "area_m2"), v.out(box, "diameter_m")
     # NEC Chapter 9 Table 8: 18 AWG solid is 1620 circular mils, 0.040 in across
     assert area.endswith("kcmil (18 AWG)"), area
     assert float(area.split()[0]) == pytest.approx(1.62, abs=0.01)
     assert float(area.split()[0]) * 1000 == pytest.approx(
-        ans["values"]["area"] / (3.141592653589793 / 4 * 0.0254e-3**2), rel=0.005
+        ans["values"]["area_m2"] / (3.141592653589793 / 4 * 0.0254e-3**2), rel=0.005
     )
     assert diameter.endswith(" mil"), diameter
     assert float(diameter.split()[0]) == pytest.approx(40.3, abs=0.1)
-    assert v.page.locator(f"#{box} [data-pin=drop] .lb-pin-value").inner_text() == ans["display"]["drop"]
+    assert v.page.locator(f"#{box} [data-pin=drop_V] .lb-pin-value").inner_text() == ans["display"]["drop_V"]
     # and back
     before = v.count(box)
     v.page.locator(f"#{box} .lb-units").click()
     v.computed(box, before)
-    assert v.out(box, "area") == compute("wire", block_inputs(v, box))["display"]["area"]
+    assert v.out(box, "area_m2") == compute("wire", block_inputs(v, box))["display"]["area_m2"]

@@ -121,7 +121,7 @@ def test_camera_calculator() -> None:
     assert ans["values"]["variation"] == pytest.approx(want, rel=1e-3)
     assert ans["values"]["verdict"] == "over the threshold" and ans["warnings"]
     ans = compute("camera", {"shutter": "angle", "shutter_angle": "172.8°", "frame_rate": "24 fps"})
-    assert ans["values"]["shutter_time"] == pytest.approx(0.02) and ans["values"]["variation"] < 1e-9
+    assert ans["values"]["shutter_time_s"] == pytest.approx(0.02) and ans["values"]["variation"] < 1e-9
     assert any(r["setting"] == "1/100 s" and r["ok"] == "yes" for r in ans["rows"])
 
 

@@ -53,7 +53,7 @@ def test_dropper_answer_X12_and_cautions() -> None:
         "--json",
     )
     data = json.loads(r.stdout)
-    assert data["values"]["led_current_avg"] == pytest.approx(0.04208, rel=1e-3)
+    assert data["values"]["led_current_avg_A"] == pytest.approx(0.04208, rel=1e-3)
     t = lampbook("dropper", "--region", "120-60")
     assert "CAUTION" in t.stdout and "Local codes" in t.stdout
 
@@ -71,12 +71,12 @@ def test_wire_answer_VD3() -> None:
         "12 V",
         "--json",
     )
-    assert json.loads(r.stdout)["values"]["drop"] == pytest.approx(0.419, rel=1e-3)
+    assert json.loads(r.stdout)["values"]["drop_V"] == pytest.approx(0.419, rel=1e-3)
 
 
 def test_ripple_answer_RP4() -> None:
     r = lampbook("ripple", "--load-current", "20 mA", "--capacitance", "100 uF", "--frequency", "60 Hz", "--json")
-    assert json.loads(r.stdout)["values"]["ripple_pp"] == pytest.approx(1.667, rel=1e-3)
+    assert json.loads(r.stdout)["values"]["ripple_pp_V"] == pytest.approx(1.667, rel=1e-3)
 
 
 def test_string_answer_L5() -> None:
@@ -98,7 +98,7 @@ def test_string_answer_L5() -> None:
         "3",
         "--json",
     )
-    assert json.loads(r.stdout)["values"]["ballast_exact"] == pytest.approx(150.0)
+    assert json.loads(r.stdout)["values"]["ballast_exact_ohm"] == pytest.approx(150.0)
 
 
 @pytest.mark.parametrize(
@@ -137,7 +137,7 @@ def test_check_json_shape() -> None:
         "string_current_avg_A",
         "bus_voltage_avg_V",
         "ripple_pp_V",
-        "percent_flicker",
+        "percent_flicker_pct",
         "flicker_index",
         "dropper_current_rms_A",
         "smoothing_ripple_current_rms_A",
@@ -174,9 +174,17 @@ def test_check_bad_design_names_key(tmp_path: object) -> None:
     [
         # IEC 60062 codes and trade markings on the command line (IEC 60062, from memory)
         (["ripple", "--capacitance", "2u2", "--json"], None, None),
-        (["dropper", "--bleeder", "4k7", "--json"], "bleeder", 4700.0),
-        (["dropper", "--capacitance", "0.47 MFD", "--json"], "reactance", 1 / (2 * 3.141592653589793 * 50 * 0.47e-6)),
-        (["dropper", "--capacitance", "0,47 uF", "--json"], "reactance", 1 / (2 * 3.141592653589793 * 50 * 0.47e-6)),
+        (["dropper", "--bleeder", "4k7", "--json"], "bleeder_ohm", 4700.0),
+        (
+            ["dropper", "--capacitance", "0.47 MFD", "--json"],
+            "reactance_ohm",
+            1 / (2 * 3.141592653589793 * 50 * 0.47e-6),
+        ),
+        (
+            ["dropper", "--capacitance", "0,47 uF", "--json"],
+            "reactance_ohm",
+            1 / (2 * 3.141592653589793 * 50 * 0.47e-6),
+        ),
     ],
 )
 def test_trade_spellings_on_the_command_line_X1(args: list[str], field: str | None, si: float | None) -> None:

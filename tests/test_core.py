@@ -72,7 +72,7 @@ def test_range_limits() -> None:
 
 def test_region_fills_mains_and_custom_requires_values() -> None:
     r = evaluate(CALCULATORS["dropper"], {"region": "120-60"})
-    assert r.values["peak_voltage"] == pytest.approx(169.7, rel=1e-3)
+    assert r.values["peak_voltage_V"] == pytest.approx(169.7, rel=1e-3)
     ans = compute("dropper", {"region": "custom"})
     assert not ans["ok"] and {e["field"] for e in ans["errors"]} >= {"mains_voltage", "frequency"}
 
@@ -84,33 +84,33 @@ def test_bus_above_crest_is_no_solution() -> None:
 
 def test_dropper_bank_steps() -> None:
     r = evaluate(CALCULATORS["dropper"], {"stock_capacitance": "0.47 uF", "target_current": "40 mA"})
-    assert r.values["bank_count"] == math.ceil(float(r.values["capacitance_needed"]) / 0.47e-6)  # type: ignore[arg-type]
-    currents = [row["led_current_avg"] for row in r.rows]
+    assert r.values["bank_count"] == math.ceil(float(r.values["capacitance_needed_F"]) / 0.47e-6)  # type: ignore[arg-type]
+    currents = [row["led_current_avg_A"] for row in r.rows]
     assert currents == sorted(currents) and len(currents) == r.values["bank_count"]
 
 
 def test_frequency_mismatch_60_over_50_is_20_percent() -> None:
     r = evaluate(CALCULATORS["dropper"], {})
-    assert r.values["led_current_other_frequency"] / r.values["led_current_avg"] == pytest.approx(1.2)  # type: ignore[operator]
+    assert r.values["led_current_other_frequency_A"] / r.values["led_current_avg_A"] == pytest.approx(1.2)  # type: ignore[operator]
 
 
 def test_string_cv_pick_keeps_headroom() -> None:
     r = evaluate(CALCULATORS["string"], {"supply": "cv", "supply_voltage": "24 V", "current": "20 mA"})
     assert float(r.values["headroom"]) >= 0.10  # type: ignore[arg-type]
-    assert r.values["string_current_min"] <= r.values["string_current"] <= r.values["string_current_max"]  # type: ignore[operator]
+    assert r.values["string_current_min_A"] <= r.values["string_current_A"] <= r.values["string_current_max_A"]  # type: ignore[operator]
 
 
 def test_string_cc_fits_window() -> None:
     r = evaluate(CALCULATORS["string"], {"supply": "cc", "driver_current": "350 mA", "current_max": "120 mA"})
-    assert 9 <= float(r.values["voltage_hot"]) and float(r.values["voltage_cold"]) <= 36  # type: ignore[arg-type]
-    assert float(r.values["string_current"]) <= 0.120  # type: ignore[arg-type]
+    assert 9 <= float(r.values["voltage_hot_V"]) and float(r.values["voltage_cold_V"]) <= 36  # type: ignore[arg-type]
+    assert float(r.values["string_current_A"]) <= 0.120  # type: ignore[arg-type]
 
 
 def test_string_dropper_sensitivity_rises_with_bus() -> None:
     r = evaluate(CALCULATORS["string"], {"supply": "dropper", "current": "30 mA"})
     sens = [row["sensitivity"] for row in r.rows]
     assert sens == sorted(sens)
-    caps = [row["capacitance"] for row in r.rows]
+    caps = [row["capacitance_F"] for row in r.rows]
     assert caps == sorted(caps)
 
 
@@ -153,14 +153,14 @@ def test_a_row_that_does_not_apply_says_so() -> None:
     # of another mode is not part of the answer (issue of consistency, no outside reference needed: the rule is
     # about what is shown, and each case is checked against the value the calculator returns).
     dropper = compute("dropper", {})
-    assert "capacitance_needed" in dropper["applies"] and dropper["values"]["capacitance_needed"] is None
-    assert dropper["display"]["capacitance_needed"] == "does not apply: no target current given"
+    assert "capacitance_needed_F" in dropper["applies"] and dropper["values"]["capacitance_needed_F"] is None
+    assert dropper["display"]["capacitance_needed_F"] == "does not apply: no target current given"
     cv = compute("string", {"supply": "cv"})
-    assert "ballast" in cv["applies"] and cv["values"]["ballast"] is not None
-    assert "capacitance" not in cv["applies"] and "voltage_cold" not in cv["applies"]
+    assert "ballast_ohm" in cv["applies"] and cv["values"]["ballast_ohm"] is not None
+    assert "capacitance_F" not in cv["applies"] and "voltage_cold_V" not in cv["applies"]
     feed = compute("string", {"supply": "dropper", "current": "30 mA"})
-    assert "capacitance" in feed["applies"] and feed["values"]["capacitance"] is not None
-    assert "ballast" not in feed["applies"]
+    assert "capacitance_F" in feed["applies"] and feed["values"]["capacitance_F"] is not None
+    assert "ballast_ohm" not in feed["applies"]
     for name in CALCULATORS:
         calc = CALCULATORS[name]
         for mode in calc.param(calc.mode).choices if calc.mode else (None,):
@@ -177,7 +177,7 @@ def test_api_handle_json_round_trip() -> None:
     out = json.loads(
         handle(json.dumps({"kind": "compute", "calculator": "ripple", "inputs": {"capacitance": "220 uF"}}))
     )
-    assert out["ok"] and out["display"]["ripple_pp"].endswith("V")
+    assert out["ok"] and out["display"]["ripple_pp_V"].endswith("V")
     bad = json.loads(handle("not json"))
     assert not bad["ok"]
     desc = json.loads(handle('{"kind": "describe"}'))
@@ -298,21 +298,21 @@ def test_dropper_rows_follow_the_bank_X8_X1() -> None:
     v = ans["values"]
     c = 5 * 0.1e-6
     assert v["bank_count"] == 5
-    assert v["led_current_avg"] == pytest.approx(4 * 50 * c * (230 * math.sqrt(2) - 100 - 1.8), rel=1e-9)
-    assert v["led_current_avg"] == pytest.approx(ans["rows"][-1]["led_current_avg"], rel=1e-12)
-    assert v["reactance"] == pytest.approx(1 / (2 * math.pi * 50 * c), rel=1e-9)
+    assert v["led_current_avg_A"] == pytest.approx(4 * 50 * c * (230 * math.sqrt(2) - 100 - 1.8), rel=1e-9)
+    assert v["led_current_avg_A"] == pytest.approx(ans["rows"][-1]["led_current_avg_A"], rel=1e-12)
+    assert v["reactance_ohm"] == pytest.approx(1 / (2 * math.pi * 50 * c), rel=1e-9)
     c_hi, pk_hi = c * 1.1, 253 * math.sqrt(2)
-    assert v["bleeder_discharge_time"] == pytest.approx(v["bleeder"] * c_hi * math.log(pk_hi / 34), rel=1e-9)
-    assert v["bleeder_discharge_time"] <= 1.0
+    assert v["bleeder_discharge_time_s"] == pytest.approx(v["bleeder_ohm"] * c_hi * math.log(pk_hi / 34), rel=1e-9)
+    assert v["bleeder_discharge_time_s"] <= 1.0
     assert any("for the bank" in n for n in ans["notes"])
 
 
 def test_dropper_without_series_resistor_says_so() -> None:
     ans = compute("dropper", {"series_resistance": "0 Ω"})
     assert ans["ok"]
-    assert ans["values"]["switch_on_peak"] is None and ans["values"]["pulse_energy"] is None
-    assert "not limited" in ans["display"]["switch_on_peak"]
-    assert "does not apply" in ans["display"]["pulse_energy"]
+    assert ans["values"]["switch_on_peak_A"] is None and ans["values"]["pulse_energy_J"] is None
+    assert "not limited" in ans["display"]["switch_on_peak_A"]
+    assert "does not apply" in ans["display"]["pulse_energy_J"]
     assert any("no series resistor" in w for w in ans["warnings"])
 
 
@@ -320,7 +320,7 @@ def test_dropper_impossible_operating_point_is_warned() -> None:
     # 22 µF on 230 V into a 100 V bus: about 1 A and hundreds of watts in a 100 Ω resistor (X8, I²R)
     ans = compute("dropper", {"capacitance": "22 uF", "series_resistance": "100 Ω"})
     assert ans["ok"]
-    assert ans["values"]["series_resistor_power"] > 100
+    assert ans["values"]["series_resistor_power_W"] > 100
     assert any("series resistor would dissipate" in w for w in ans["warnings"])
     assert any("into the LEDs" in w for w in ans["warnings"])
     quiet = compute("dropper", {})

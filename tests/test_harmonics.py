@@ -329,7 +329,7 @@ def test_H4_H7_harmonics_calculator_bands_and_verdict() -> None:
     assert "5-25 W" in compute("harmonics", {**base, "active_power": "25 W"})["values"]["band"]
     assert "no limits" in compute("harmonics", {**base, "active_power": "5 W"})["values"]["band"]
     a = compute("harmonics", {"emission_class": "A", "active_power": "500 W"})
-    assert a["rows"][1]["order"] == 3 and a["rows"][1]["limit"] == 2.30
+    assert a["rows"][1]["order"] == 3 and a["rows"][1]["limit_A"] == 2.30
     us = compute("harmonics", {**base, "mains_voltage": "120 V", "active_power": "40 W"})
     assert us["values"]["applies"].startswith("guide only")
     bad = compute("harmonics", {"emission_class": "E"})

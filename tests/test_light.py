@@ -135,9 +135,9 @@ def test_light_calculator_matches_P7_and_P8() -> None:
         },
     )
     assert ans["ok"], ans
-    assert ans["values"]["illuminance_average"] == pytest.approx(492.6, rel=1e-3)  # P7
-    assert ans["values"]["illuminance_axis"] == pytest.approx(519.0, rel=1e-3)  # P8
-    assert ans["values"]["intensity"] == pytest.approx(4671, rel=1e-3)
+    assert ans["values"]["illuminance_average_lx"] == pytest.approx(492.6, rel=1e-3)  # P7
+    assert ans["values"]["illuminance_axis_lx"] == pytest.approx(519.0, rel=1e-3)  # P8
+    assert ans["values"]["intensity_cd"] == pytest.approx(4671, rel=1e-3)
     assert ans["display"]["illuminance_axis_fc"] == f"{519.0 / 10.7639:.4g} fc"
 
 

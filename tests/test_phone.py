@@ -217,7 +217,7 @@ def test_the_checks_find_what_they_look_for(demo_site: tuple[Path, Server], brow
     )
     assert any("current carries no modes" in p for p in page.evaluate(MODE_PROBLEMS, "lb-string-1"))
     # a value split from its unit, an id broken into pieces
-    page.evaluate("""() => { const td = document.querySelector('#lb-string-1 tr[data-out=string_current] td');
+    page.evaluate("""() => { const td = document.querySelector('#lb-string-1 tr[data-out=string_current_A] td');
         td.style.whiteSpace = 'normal'; td.style.display = 'inline-block'; td.style.width = '1.5em'; }""")
     assert any("number broken" in p for p in page.evaluate(BROKEN_TOKENS))
     # something wider than the screen

@@ -57,8 +57,8 @@ def test_prerendered_answers_equal_core(site: Path) -> None:
     data = payloads(page)
     native = compute("dropper", {"region": "120-60", "capacitance": "2.2 uF", "bus_voltage": "90 V"})
     assert data[0]["answer"] == native
-    shown = re.search(r'<tr data-out="led_current_avg"><th>[^<]*</th><td>([^<]*)</td>', page)
-    assert shown and html.unescape(shown.group(1)) == native["display"]["led_current_avg"]
+    shown = re.search(r'<tr data-out="led_current_avg_A"><th>[^<]*</th><td>([^<]*)</td>', page)
+    assert shown and html.unescape(shown.group(1)) == native["display"]["led_current_avg_A"]
 
 
 def test_mains_blocks_link_the_safety_page(site: Path) -> None:

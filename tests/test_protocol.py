@@ -22,6 +22,7 @@ from lampcalc.fixture.workbench import to_doc
 from sites import ROOT
 
 from lampbook import protocoltypes
+from lampbook.catalogue import check_design
 
 DESIGNS = ROOT / "docs" / "designs"
 
@@ -222,3 +223,157 @@ def test_generator_check_mode(tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -
     assert protocoltypes.main([]) == 0 and protocoltypes.main(["--check"]) == 0
     target.write_text(target.read_text(encoding="utf-8") + "// edited\n", encoding="utf-8")
     assert protocoltypes.main(["--check"]) == 1
+
+
+# --- every number named with its unit --------------------------------------------------------------------------
+# A numeric key ends with its unit, one scale per quantity across every command and page (README, "JSON output").
+UNIT_SUFFIXES = (
+    "_V", "_A", "_F", "_ohm", "_ohm_per_m", "_W", "_VA", "_var", "_Hz", "_s", "_h", "_J", "_H", "_C",
+    "_K_per_W", "_lm", "_lx", "_cd", "_lm_per_W", "_m", "_m2", "_A2s", "_deg", "_fps", "_pct",
+    "_ft", "_fc",  # imperial twins of a figure also given in SI (distance_m / distance_ft)
+)  # fmt: skip
+#: the suffix a calculator output of each dimension carries
+DIM_SUFFIX = {
+    "voltage": ("_V",), "current": ("_A",), "capacitance": ("_F",), "resistance": ("_ohm", "_ohm_per_m"),
+    "power": ("_W",), "frequency": ("_Hz",), "time": ("_s",), "energy": ("_J",), "length": ("_m",),
+    "area": ("_m2",), "percent": ("_pct",), "luminous_flux": ("_lm",), "illuminance": ("_lx",),
+    "luminous_intensity": ("_cd",), "efficacy": ("_lm_per_W",),
+    "ratio": ("",), "count": ("",),
+}  # fmt: skip
+#: dimensionless fractions (0-1, a ratio of two like quantities) and counts: the only numbers with no unit
+DIMENSIONLESS = {
+    # fractions
+    "power_factor", "displacement_pf", "distortion_pf", "thd", "flicker_index", "harmonic_worst_ratio",
+    "worst_ratio", "ratio", "floor", "imbalance", "drop_fraction", "efficiency", "headroom", "bus_fraction",
+    "variation", "exposure_low", "exposure_high", "threshold", "relative", "error", "sensitivity", "limit_ratio",
+    "max_relative_error",
+    # counts
+    "failed", "warned", "cases", "resistors", "order", "newton_iterations", "steps", "spectrum_samples_per_period",
+    "series", "parallel", "bank_count", "bleeder_parts", "step", "parts", "modules", "best", "samples", "seed",
+    "exact_solves", "checked_samples", "counts",
+}  # fmt: skip
+#: numbers whose unit is not one: given beside them in a ``unit`` field (corners, fault over-ratings), the
+#: input's own kind (the preferred-value and quantity readers), or one per variable listed beside them (the study's
+#: sampling box, its stress named in ``name``, the camera sweep's (shutter s, variation) pairs)
+UNIT_BESIDE = {"value", "rating", "nearest", "up", "down", "si", "low", "high", "max", "p1", "p50", "p99", "sweep"}
+#: quantities the trade states in percent: given 0-100, always with ``_pct``
+PERCENT = (
+    "percent_flicker",
+    "low_risk_limit",
+    "no_effect_limit",
+    "ieee1789_low_risk_limit",
+    "ieee1789_no_effect_limit",
+)
+
+
+def _suffix(key: str) -> str | None:
+    return max((s for s in UNIT_SUFFIXES if key.endswith(s)), key=len, default=None)
+
+
+def numeric_keys(value: object, key: str = "", parent: str = "", path: str = "answer") -> list[tuple[str, str, str]]:
+    """Every numeric leaf as (its key, the key of the object holding it, its path); a list's items take the
+    list's key."""
+    if isinstance(value, dict):
+        return [x for k, v in value.items() for x in numeric_keys(v, k, key, f"{path}.{k}")]
+    if isinstance(value, list):
+        return [x for v in value for x in numeric_keys(v, key, parent, f"{path}[]")]
+    if isinstance(value, (int, float)) and not isinstance(value, bool):
+        return [(key, parent, path)]
+    return []
+
+
+def _calculator_answers() -> list[tuple[str, dict[str, typing.Any]]]:
+    out = []
+    for calc in CALCULATORS.values():
+        modes = [{}] + [{calc.mode: m} for m in calc.param(calc.mode).choices] if calc.mode else [{}]
+        for inputs in modes:
+            if calc.name == "string" and inputs.get("supply") == "dropper":
+                inputs = {**inputs, "current": "30 mA"}
+            out.append((f"{calc.name} {inputs}", ask({"kind": "compute", "calculator": calc.name, "inputs": inputs})))
+    return out
+
+
+@pytest.fixture(scope="module")
+def every_answer() -> list[tuple[str, dict[str, typing.Any]]]:
+    """Every calculator in each of its modes, the review of every design in docs/designs and tests/designs, a
+    study, a plan and the catalogue summary of the demo designs, as the page and ``--json`` give them."""
+    answers = _calculator_answers()
+    for path in sorted([*DESIGNS.glob("*.toml"), *(ROOT / "tests" / "designs").glob("*.toml")]):
+        answers.append((f"check {path.name}", ask({"kind": "check", "toml": path.read_text(encoding="utf-8")})))
+    answers.append(("study", ask({"kind": "study", "toml": text("worklight-120"), "samples": 200, "seed": 3})))
+    doc = to_doc(text("panel-230"))
+    plan = ask({"kind": "plan", "doc": doc, "options": {"modules": "24", "supply": "dropper"}})
+    plan.pop("doc")  # the proposed design file as form values: its keys are the design file's, inputs, not outputs
+    answers.append(("plan", plan))
+    for path in sorted(DESIGNS.glob("*.toml")):  # what `lampbook check FOLDER --json` lists
+        answers.append((f"catalogue {path.name}", check_design(path.read_text(encoding="utf-8"))["summary"]))
+    return [(n, a) for n, a in answers if a.get("ok", True)]
+
+
+def test_every_number_carries_its_unit(every_answer: list[tuple[str, dict[str, typing.Any]]]) -> None:
+    bare = set()
+    for name, answer in every_answer:
+        for key, parent, path in numeric_keys(answer):
+            if _suffix(key) or key in DIMENSIONLESS or key in UNIT_BESIDE or _suffix(parent):
+                continue  # a figure in a table named with its unit (losses_W: {"bridge": ...}) has it too
+            bare.add(f"{name}: {path}")
+    assert not bare, sorted(bare)[:20]
+    # the test sees what it should: the calculators, the review's corners and the plan
+    seen = {key for _, answer in every_answer for key, _, _ in numeric_keys(answer)}
+    assert {"ripple_pp_V", "led_current_avg_A", "area_m2", "percent_flicker_pct", "limit_ratio"} <= seen
+
+
+def test_one_scale_per_quantity(every_answer: list[tuple[str, dict[str, typing.Any]]]) -> None:
+    """A quantity keeps one name and one scale wherever it appears: no key given bare (a fraction or a count) in
+    one answer and with a unit in another, percent quantities only as ``_pct`` (0-100), and the same figure
+    from two commands reads the same."""
+    suffixes: dict[str, set[str]] = {}
+    for _, answer in every_answer:
+        for key, parent, _ in numeric_keys(answer):
+            if key in UNIT_BESIDE or _suffix(parent):
+                continue
+            s = _suffix(key) or ""
+            suffixes.setdefault(key.removesuffix(s) if s else key, set()).add(s)
+    both = {k: v for k, v in suffixes.items() if "" in v and len(v) > 1}
+    assert not both, both
+    for stem in PERCENT:
+        assert suffixes.get(stem, {"_pct"}) == {"_pct"}, (stem, suffixes[stem])
+    assert {"percent_flicker", "ieee1789_low_risk_limit", "low_risk_limit"} <= set(suffixes)
+    # the same figure from two commands reads the same: the IEEE 1789 low-risk limit at 100 Hz is 8 % both in
+    # the ripple calculator and in the review (IEEE 1789-2015 cl. 8.1.1, 0.08 x 100 Hz, from memory)
+    ripple = ask({"kind": "compute", "calculator": "ripple", "inputs": {"frequency": "50 Hz", "rectifier": "full"}})
+    review = ask({"kind": "check", "toml": text("panel-230")})
+    assert ripple["values"]["low_risk_limit_pct"] == pytest.approx(8.0)
+    assert review["nominal"]["ieee1789_low_risk_limit_pct"] == pytest.approx(8.0)
+    # percent flicker from a calculator is 0-100 as in the review: 100 * (ΔI/2) / I at the default 20 mA load
+    # (IEEE 1789-2015 definition, (max - min) / (max + min))
+    v = ripple["values"]
+    assert v["percent_flicker_pct"] == pytest.approx(100 * (v["led_ripple_pp_A"] / 2) / 0.020, rel=1e-9)
+
+
+@pytest.mark.parametrize("calc", list(CALCULATORS.values()), ids=lambda c: c.name)
+def test_each_output_is_named_for_its_dimension(calc: typing.Any) -> None:
+    """The declaration itself: a numeric output's name ends with its dimension's unit, a ratio or count has none."""
+    for o in (*calc.outputs, *calc.columns):
+        if o.dim == "text":
+            continue  # text outputs keep their names ("… in feet" reads illuminance_axis_fc)
+        want = DIM_SUFFIX[o.dim]
+        got = _suffix(o.name) or ""
+        assert got in want, f"{calc.name}.{o.name}: {o.dim} wants {' or '.join(want) or 'no suffix'}"
+        if got == "" and o.dim in ("ratio", "count"):
+            assert o.name in DIMENSIONLESS | UNIT_BESIDE, f"{calc.name}.{o.name}: not declared dimensionless"
+
+
+def test_a_calculator_block_carries_its_declared_data() -> None:
+    """The JSON a calculator block puts beside its form (lampbook/blocks.py) is the declared CalculatorBlock: the
+    page builds the form from ``declaration`` and shows ``answer`` until the engine answers."""
+    import re
+
+    from lampbook.blocks import parse_block, render
+
+    page = render(parse_block(1, "calculator: ripple\ncapacitance: 220 uF\n"), None)
+    found = re.search(r'<script type="application/json" class="lb-data">(.*?)</script>', page, re.S)
+    assert found
+    data = json.loads(found.group(1))
+    assert conforms(data, protocol.CalculatorBlock) == []
+    assert data["answer"] == ask({"calculator": "ripple", "inputs": {"capacitance": "220 uF"}})

@@ -45,7 +45,7 @@ def test_V8_peak_of_sine(vrms: float, vpk: float) -> None:
         CALCULATORS["mains"],
         {"region": "custom", "mains_voltage": f"{vrms} V", "frequency": "50 Hz", "mains_tolerance": "0 %"},
     )
-    assert r.values["peak"] == pytest.approx(vpk, rel=1e-4)
+    assert r.values["peak_V"] == pytest.approx(vpk, rel=1e-4)
 
 
 # --- copper and wire ---------------------------------------------------------------
@@ -108,14 +108,14 @@ def test_M5_iec60228_class5_maximum_vs_iacs_nominal() -> None:
 
 def test_VD3_worked_drop_18AWG_5m_2A() -> None:
     r = evaluate(CALCULATORS["wire"], {"size": "18 AWG", "length": "5 m", "current": "2 A", "supply_voltage": "12 V"})
-    assert r.values["loop_resistance"] == pytest.approx(0.2095, rel=1e-3)
-    assert r.values["drop"] == pytest.approx(0.419, rel=1e-3)
+    assert r.values["loop_resistance_ohm"] == pytest.approx(0.2095, rel=1e-3)
+    assert r.values["drop_V"] == pytest.approx(0.419, rel=1e-3)
     assert r.values["drop_fraction"] == pytest.approx(0.0349, rel=2e-3)
 
 
 def test_AM5_nec_400_5_cord_table_is_named() -> None:
     r = evaluate(CALCULATORS["wire"], {"size": "18 AWG", "current": "2 A", "ampacity_table": "us-cord"})
-    assert r.values["ampacity"] == 10.0
+    assert r.values["ampacity_A"] == 10.0
     assert "400.5(A)(1)" in str(r.values["ampacity_table"])
 
 
@@ -213,8 +213,8 @@ def test_S13_bleeder_maxima_per_uF_IEC60335_1_cl22_5(v0: float, t: float, vlim: 
 
 def test_S14_bleeder_dissipation_and_S17_switch_on() -> None:
     r = evaluate(CALCULATORS["dropper"], {"bleeder": "470 kΩ", "series_resistance": "100 Ω"})
-    assert r.values["bleeder_power"] == pytest.approx(0.136, rel=3e-3)  # 470 k at 253 V
-    assert r.values["switch_on_peak"] == pytest.approx(3.58, rel=2e-3)  # 357.8 V / 100 ohm
+    assert r.values["bleeder_power_W"] == pytest.approx(0.136, rel=3e-3)  # 470 k at 253 V
+    assert r.values["switch_on_peak_A"] == pytest.approx(3.58, rel=2e-3)  # 357.8 V / 100 ohm
     assert dropper.switch_on_peak(325.3, 47) == pytest.approx(6.92, rel=1e-3)
 
 

@@ -214,13 +214,13 @@ def _module(v: V) -> Result:
         )
     return Result(
         {
-            "v0": m.v0,
-            "r_dynamic": m.r_dynamic,
-            "vf": vf,
-            "vf_min": m.voltage(i, t, -1),
-            "vf_max": m.voltage(i, t, +1),
-            "power": vf * i,
-            "current_at_voltage": m.current(volt, t) if volt is not None else None,
+            "v0_V": m.v0,
+            "r_dynamic_ohm": m.r_dynamic,
+            "vf_V": vf,
+            "vf_min_V": m.voltage(i, t, -1),
+            "vf_max_V": m.voltage(i, t, +1),
+            "power_W": vf * i,
+            "current_at_voltage_A": m.current(volt, t) if volt is not None else None,
         },
         notes=tuple(notes),
         warnings=tuple(warnings),
@@ -266,16 +266,16 @@ MODULE = Calculator(
         Param("temperature", "Module temperature", "temperature", "25 °C", "", -60.0, 200.0),
     ),
     (
-        Output("v0", "Knee voltage V0", "voltage"),
-        Output("r_dynamic", "Dynamic resistance Rd", "resistance"),
-        Output("vf", "Forward voltage", "voltage"),
-        Output("vf_min", "Forward voltage, low end", "voltage"),
-        Output("vf_max", "Forward voltage, high end", "voltage"),
-        Output("power", "Module power", "power"),
-        Output("current_at_voltage", "Current at the test voltage", "current", absent="no test voltage given"),
+        Output("v0_V", "Knee voltage V0", "voltage"),
+        Output("r_dynamic_ohm", "Dynamic resistance Rd", "resistance"),
+        Output("vf_V", "Forward voltage", "voltage"),
+        Output("vf_min_V", "Forward voltage, low end", "voltage"),
+        Output("vf_max_V", "Forward voltage, high end", "voltage"),
+        Output("power_W", "Module power", "power"),
+        Output("current_at_voltage_A", "Current at the test voltage", "current", absent="no test voltage given"),
     ),
     _module,
-    main=("vf", "vf_min", "vf_max"),
+    main=("vf_V", "vf_min_V", "vf_max_V"),
     secondary=("current_max", "vf_tempco", "vf_spread", "i1", "v1", "i2", "v2", "voltage"),
 )
 
@@ -338,23 +338,23 @@ def _string(v: V) -> Result:
         notes.append("Worst-case high: high supply, low Vf, hot. Low: low supply, high Vf, cold.")
         values: dict[str, Value] = {
             "series": float(pick.series),
-            "ballast_exact": pick.ballast_exact,
-            "ballast": pick.ballast,
-            "string_current": pick.current,
-            "string_current_min": pick.current_min,
-            "string_current_max": pick.current_max,
-            "resistor_power": pick.resistor_power,
-            "resistor_rating": pick.resistor_rating,
+            "ballast_exact_ohm": pick.ballast_exact,
+            "ballast_ohm": pick.ballast,
+            "string_current_A": pick.current,
+            "string_current_min_A": pick.current_min,
+            "string_current_max_A": pick.current_max,
+            "resistor_power_W": pick.resistor_power,
+            "resistor_rating_W": pick.resistor_rating,
             "efficiency": pick.efficiency,
             "headroom": pick.headroom,
         }
         rows = tuple(
             {
                 "series": float(o.series),
-                "ballast": o.ballast,
-                "string_current": o.current,
-                "string_current_max": o.current_max,
-                "resistor_power": o.resistor_power,
+                "ballast_ohm": o.ballast,
+                "string_current_A": o.current,
+                "string_current_max_A": o.current_max,
+                "resistor_power_W": o.resistor_power,
                 "efficiency": o.efficiency,
                 "headroom": o.headroom,
             }
@@ -387,9 +387,9 @@ def _string(v: V) -> Result:
         values = {
             "series": float(best.series) if best else None,
             "parallel": float(best.parallel) if best else None,
-            "string_current": best.string_current if best else None,
-            "voltage_cold": best.voltage_cold if best else None,
-            "voltage_hot": best.voltage_hot if best else None,
+            "string_current_A": best.string_current if best else None,
+            "voltage_cold_V": best.voltage_cold if best else None,
+            "voltage_hot_V": best.voltage_hot if best else None,
         }
         if best and best.parallel > 1:
             warnings.append(
@@ -399,9 +399,9 @@ def _string(v: V) -> Result:
             {
                 "series": float(o.series),
                 "parallel": float(o.parallel),
-                "string_current": o.string_current,
-                "voltage_cold": o.voltage_cold,
-                "voltage_hot": o.voltage_hot,
+                "string_current_A": o.string_current,
+                "voltage_cold_V": o.voltage_cold,
+                "voltage_hot_V": o.voltage_hot,
                 "rating": "ok" if o.within_rating else "over rating",
             }
             for o in cc
@@ -431,19 +431,19 @@ def _string(v: V) -> Result:
     )
     values = {
         "series": float(pick_d.series),
-        "bus_voltage": pick_d.bus,
+        "bus_voltage_V": pick_d.bus,
         "bus_fraction": pick_d.fraction,
-        "capacitance": pick_d.capacitance,
-        "string_current_max": pick_d.current_high_mains,
+        "capacitance_F": pick_d.capacitance,
+        "string_current_max_A": pick_d.current_high_mains,
         "sensitivity": pick_d.sensitivity,
     }
     rows = tuple(
         {
             "series": float(o.series),
-            "bus_voltage": o.bus,
+            "bus_voltage_V": o.bus,
             "bus_fraction": o.fraction,
-            "capacitance": o.capacitance,
-            "string_current_max": o.current_high_mains,
+            "capacitance_F": o.capacitance,
+            "string_current_max_A": o.current_high_mains,
             "sensitivity": o.sensitivity,
         }
         for o in dopts
@@ -543,20 +543,20 @@ STRING = Calculator(
     (
         Output("series", "Modules in series", "count"),
         Output("parallel", "Strings in parallel", "count", modes=("cc",)),
-        Output("ballast_exact", "Ballast, exact", "resistance", modes=("cv",)),
-        Output("ballast", "Ballast, preferred value", "resistance", modes=("cv",)),
-        Output("string_current", "String current", "current", modes=("cv", "cc")),
-        Output("string_current_min", "String current, worst low", "current", modes=("cv",)),
-        Output("string_current_max", "String current, worst high", "current", modes=("cv", "dropper")),
-        Output("resistor_power", "Ballast dissipation, worst", "power", modes=("cv",)),
-        Output("resistor_rating", "Ballast rating needed", "power", modes=("cv",)),
+        Output("ballast_exact_ohm", "Ballast, exact", "resistance", modes=("cv",)),
+        Output("ballast_ohm", "Ballast, preferred value", "resistance", modes=("cv",)),
+        Output("string_current_A", "String current", "current", modes=("cv", "cc")),
+        Output("string_current_min_A", "String current, worst low", "current", modes=("cv",)),
+        Output("string_current_max_A", "String current, worst high", "current", modes=("cv", "dropper")),
+        Output("resistor_power_W", "Ballast dissipation, worst", "power", modes=("cv",)),
+        Output("resistor_rating_W", "Ballast rating needed", "power", modes=("cv",)),
         Output("efficiency", "Efficiency", "ratio", modes=("cv",)),
         Output("headroom", "Headroom", "ratio", modes=("cv",)),
-        Output("voltage_cold", "String voltage, cold", "voltage", modes=("cc",)),
-        Output("voltage_hot", "String voltage, hot", "voltage", modes=("cc",)),
-        Output("bus_voltage", "Bus voltage", "voltage", modes=("dropper",)),
+        Output("voltage_cold_V", "String voltage, cold", "voltage", modes=("cc",)),
+        Output("voltage_hot_V", "String voltage, hot", "voltage", modes=("cc",)),
+        Output("bus_voltage_V", "Bus voltage", "voltage", modes=("dropper",)),
         Output("bus_fraction", "Bus / mains peak", "ratio", modes=("dropper",)),
-        Output("capacitance", "Dropper capacitance", "capacitance", modes=("dropper",)),
+        Output("capacitance_F", "Dropper capacitance", "capacitance", modes=("dropper",)),
         Output("sensitivity", "Current sensitivity to mains", "count", modes=("dropper",)),
     ),
     _string,
@@ -566,20 +566,20 @@ STRING = Calculator(
     columns=(
         Output("series", "S", "count"),
         Output("parallel", "P", "count"),
-        Output("ballast", "Ballast", "resistance"),
-        Output("string_current", "I", "current"),
-        Output("string_current_max", "I worst", "current"),
-        Output("voltage_cold", "V cold", "voltage"),
-        Output("voltage_hot", "V hot", "voltage"),
-        Output("bus_voltage", "Bus", "voltage"),
-        Output("capacitance", "Dropper", "capacitance"),
+        Output("ballast_ohm", "Ballast", "resistance"),
+        Output("string_current_A", "I", "current"),
+        Output("string_current_max_A", "I worst", "current"),
+        Output("voltage_cold_V", "V cold", "voltage"),
+        Output("voltage_hot_V", "V hot", "voltage"),
+        Output("bus_voltage_V", "Bus", "voltage"),
+        Output("capacitance_F", "Dropper", "capacitance"),
         Output("sensitivity", "Sensitivity", "count"),
-        Output("resistor_power", "P ballast", "power"),
+        Output("resistor_power_W", "P ballast", "power"),
         Output("efficiency", "Efficiency", "ratio"),
         Output("headroom", "Headroom", "ratio"),
         Output("rating", "Rating", "text"),
     ),
-    main=("series", "parallel", "string_current", "ballast"),
+    main=("series", "parallel", "string_current_A", "ballast_ohm"),
     secondary=(
         "v0",
         "r_dynamic",
@@ -641,8 +641,8 @@ def _dropper(v: V) -> Result:
             rows.append(
                 {
                     "step": float(k),
-                    "capacitance": k * stock,
-                    "led_current_avg": drop.average_current(vn, fr, k * stock, vbus, vd),
+                    "capacitance_F": k * stock,
+                    "led_current_avg_A": drop.average_current(vn, fr, k * stock, vbus, vd),
                 }
             )
         # every row below is for the bank that will be built, not the capacitance typed
@@ -673,8 +673,8 @@ def _dropper(v: V) -> Result:
     p_series = i_cap_hi**2 * rs
     shown: dict[str, str] = {}
     if rs == 0:
-        shown["switch_on_peak"] = "not limited (no series resistor)"
-        shown["pulse_energy"] = "does not apply (no series resistor)"
+        shown["switch_on_peak_A"] = "not limited (no series resistor)"
+        shown["pulse_energy_J"] = "does not apply (no series resistor)"
         warnings.append(
             "With no series resistor nothing but the wiring limits the switch-on current: "
             "the capacitor, bridge and switch take the full mains crest. Fit a surge resistor."
@@ -698,28 +698,28 @@ def _dropper(v: V) -> Result:
         "split the bleeder in series (common practice).",
     )
     vals: dict[str, Value] = {
-        "peak_voltage": math.sqrt(2) * vn,
-        "reactance": drop.reactance(c, fr),
-        "current_naive": drop.naive_current(vn, fr, c),
-        "led_current_avg": i_avg,
-        "led_current_low": drop.average_current(vlo, fr, c * (1 - ctol), vbus, vd),
-        "led_current_high": drop.average_current(vhi, fr, c_hi, vbus, vd),
-        "led_current_other_frequency": drop.average_current(vn, other, c, vbus, vd),
-        "capacitor_current_rms": drop.capacitor_rms_current(vn, fr, c, vbus, vd),
-        "capacitor_current_rms_high": i_cap_hi,
-        "capacitor_peak_voltage": drop.capacitor_peak_voltage(vhi, vbus, vd),
-        "capacitor_ac_rating": vhi,
-        "capacitance_needed": c_need,
+        "peak_voltage_V": math.sqrt(2) * vn,
+        "reactance_ohm": drop.reactance(c, fr),
+        "current_naive_A": drop.naive_current(vn, fr, c),
+        "led_current_avg_A": i_avg,
+        "led_current_low_A": drop.average_current(vlo, fr, c * (1 - ctol), vbus, vd),
+        "led_current_high_A": drop.average_current(vhi, fr, c_hi, vbus, vd),
+        "led_current_other_frequency_A": drop.average_current(vn, other, c, vbus, vd),
+        "capacitor_current_rms_A": drop.capacitor_rms_current(vn, fr, c, vbus, vd),
+        "capacitor_current_rms_high_A": i_cap_hi,
+        "capacitor_peak_voltage_V": drop.capacitor_peak_voltage(vhi, vbus, vd),
+        "capacitor_ac_rating_V": vhi,
+        "capacitance_needed_F": c_need,
         "bank_count": bank,
-        "bleeder_max": r_max,
-        "bleeder": r_b,
-        "bleeder_discharge_time": t_b,
-        "bleeder_power": vhi**2 / r_b,
-        "bleeder_working_voltage": pk_hi,
+        "bleeder_max_ohm": r_max,
+        "bleeder_ohm": r_b,
+        "bleeder_discharge_time_s": t_b,
+        "bleeder_power_W": vhi**2 / r_b,
+        "bleeder_working_voltage_V": pk_hi,
         "bleeder_parts": float(max(1, math.ceil(pk_hi / 200.0))),
-        "switch_on_peak": drop.switch_on_peak(pk_hi, rs) if rs > 0 else None,
-        "pulse_energy": drop.pulse_energy(c_hi, pk_hi) if rs > 0 else None,
-        "series_resistor_power": p_series,
+        "switch_on_peak_A": drop.switch_on_peak(pk_hi, rs) if rs > 0 else None,
+        "pulse_energy_J": drop.pulse_energy(c_hi, pk_hi) if rs > 0 else None,
+        "series_resistor_power_W": p_series,
     }
     return Result(vals, tuple(rows), (*notes, *notes_bank), tuple(warnings), display=shown)
 
@@ -811,46 +811,46 @@ DROPPER = Calculator(
         ),
     ),
     (
-        Output("peak_voltage", "Mains peak", "voltage"),
-        Output("reactance", "Reactance Xc", "resistance"),
-        Output("current_naive", "Naive current V/Xc (rms)", "current"),
+        Output("peak_voltage_V", "Mains peak", "voltage"),
+        Output("reactance_ohm", "Reactance Xc", "resistance"),
+        Output("current_naive_A", "Naive current V/Xc (rms)", "current"),
         Output(
-            "led_current_avg",
+            "led_current_avg_A",
             "LED current, average",
             "current",
             "Charge balance, nominal mains and capacitance.",
         ),
-        Output("led_current_low", "LED current, low mains and low C", "current"),
-        Output("led_current_high", "LED current, high mains and high C", "current"),
-        Output("led_current_other_frequency", "LED current on the other mains frequency", "current"),
-        Output("capacitor_current_rms", "Capacitor current (rms)", "current"),
-        Output("capacitor_current_rms_high", "Capacitor current (rms), high mains", "current"),
-        Output("capacitor_peak_voltage", "Capacitor peak voltage, high mains", "voltage"),
-        Output("capacitor_ac_rating", "Capacitor AC rating at least", "voltage"),
-        Output("capacitance_needed", "Capacitance for the target", "capacitance", absent="no target current given"),
+        Output("led_current_low_A", "LED current, low mains and low C", "current"),
+        Output("led_current_high_A", "LED current, high mains and high C", "current"),
+        Output("led_current_other_frequency_A", "LED current on the other mains frequency", "current"),
+        Output("capacitor_current_rms_A", "Capacitor current (rms)", "current"),
+        Output("capacitor_current_rms_high_A", "Capacitor current (rms), high mains", "current"),
+        Output("capacitor_peak_voltage_V", "Capacitor peak voltage, high mains", "voltage"),
+        Output("capacitor_ac_rating_V", "Capacitor AC rating at least", "voltage"),
+        Output("capacitance_needed_F", "Capacitance for the target", "capacitance", absent="no target current given"),
         Output("bank_count", "Stock capacitors in parallel", "count", absent="no stock capacitor given"),
-        Output("bleeder_max", "Bleeder, largest allowed", "resistance"),
-        Output("bleeder", "Bleeder", "resistance"),
-        Output("bleeder_discharge_time", "Bleeder discharge time", "time"),
-        Output("bleeder_power", "Bleeder dissipation, high mains", "power"),
-        Output("bleeder_working_voltage", "Bleeder working voltage", "voltage"),
+        Output("bleeder_max_ohm", "Bleeder, largest allowed", "resistance"),
+        Output("bleeder_ohm", "Bleeder", "resistance"),
+        Output("bleeder_discharge_time_s", "Bleeder discharge time", "time"),
+        Output("bleeder_power_W", "Bleeder dissipation, high mains", "power"),
+        Output("bleeder_working_voltage_V", "Bleeder working voltage", "voltage"),
         Output("bleeder_parts", "Bleeder resistors in series", "count"),
-        Output("switch_on_peak", "Switch-on peak current", "current"),
-        Output("pulse_energy", "Switch-on pulse energy in the resistor", "energy"),
-        Output("series_resistor_power", "Series resistor dissipation", "power"),
+        Output("switch_on_peak_A", "Switch-on peak current", "current"),
+        Output("pulse_energy_J", "Switch-on pulse energy in the resistor", "energy"),
+        Output("series_resistor_power_W", "Series resistor dissipation", "power"),
     ),
     _dropper,
     mains=True,
     columns=(
         Output("step", "Capacitors", "count"),
-        Output("capacitance", "C", "capacitance"),
-        Output("led_current_avg", "LED current", "current"),
+        Output("capacitance_F", "C", "capacitance"),
+        Output("led_current_avg_A", "LED current", "current"),
     ),
     plots=(
         Sweep(
             "current_vs_mains",
             "mains_voltage",
-            "led_current_avg",
+            "led_current_avg_A",
             "LED current against mains voltage",
             "Mains voltage",
             "LED current",
@@ -858,7 +858,7 @@ DROPPER = Calculator(
             1.15,
         ),
     ),
-    main=("led_current_avg", "led_current_low", "led_current_high"),
+    main=("led_current_avg_A", "led_current_low_A", "led_current_high_A"),
     secondary=(
         "mains_voltage",
         "frequency",
@@ -914,15 +914,15 @@ def _ripple(v: V) -> Result:
     target = opt(v, "target_ripple")
     return Result(
         {
-            "ripple_pp": pp,
-            "ripple_rms": rip.sawtooth_rms(pp),
-            "ripple_frequency": ripple_f,
-            "capacitance_for_target": rip.capacitance_for_ripple(i, fr, target, full) if target else None,
-            "led_ripple_pp": di,
-            "percent_flicker": pf / 100.0,
+            "ripple_pp_V": pp,
+            "ripple_rms_V": rip.sawtooth_rms(pp),
+            "ripple_frequency_Hz": ripple_f,
+            "capacitance_for_target_F": rip.capacitance_for_ripple(i, fr, target, full) if target else None,
+            "led_ripple_pp_A": di,
+            "percent_flicker_pct": pf,
             "flicker_band": band.name,
-            "low_risk_limit": band.low_risk_limit / 100.0,
-            "no_effect_limit": band.no_effect_limit / 100.0,
+            "low_risk_limit_pct": band.low_risk_limit,
+            "no_effect_limit_pct": band.no_effect_limit,
         },
         notes=tuple(notes),
         warnings=tuple(warnings),
@@ -971,15 +971,17 @@ RIPPLE = Calculator(
         ),
     ),
     (
-        Output("ripple_pp", "Bus ripple (p-p)", "voltage"),
-        Output("ripple_rms", "Bus ripple (rms, sawtooth)", "voltage"),
-        Output("ripple_frequency", "Ripple frequency", "frequency"),
-        Output("capacitance_for_target", "Capacitance for the target", "capacitance", absent="no target ripple given"),
-        Output("led_ripple_pp", "LED current ripple (p-p)", "current"),
-        Output("percent_flicker", "Percent flicker", "ratio"),
+        Output("ripple_pp_V", "Bus ripple (p-p)", "voltage"),
+        Output("ripple_rms_V", "Bus ripple (rms, sawtooth)", "voltage"),
+        Output("ripple_frequency_Hz", "Ripple frequency", "frequency"),
+        Output(
+            "capacitance_for_target_F", "Capacitance for the target", "capacitance", absent="no target ripple given"
+        ),
+        Output("led_ripple_pp_A", "LED current ripple (p-p)", "current"),
+        Output("percent_flicker_pct", "Percent flicker", "percent"),
         Output("flicker_band", "IEEE 1789 band", "text"),
-        Output("low_risk_limit", "Low-risk limit", "ratio"),
-        Output("no_effect_limit", "No-observable-effect limit", "ratio"),
+        Output("low_risk_limit_pct", "Low-risk limit", "percent"),
+        Output("no_effect_limit_pct", "No-observable-effect limit", "percent"),
     ),
     _ripple,
     mains=True,
@@ -987,7 +989,7 @@ RIPPLE = Calculator(
         Sweep(
             "ripple_vs_capacitance",
             "capacitance",
-            "ripple_pp",
+            "ripple_pp_V",
             "Bus ripple against smoothing capacitance",
             "Smoothing capacitance",
             "Bus ripple, peak to peak",
@@ -996,7 +998,7 @@ RIPPLE = Calculator(
             log=True,
         ),
     ),
-    main=("ripple_pp", "percent_flicker", "flicker_band"),
+    main=("ripple_pp_V", "percent_flicker_pct", "flicker_band"),
     secondary=("r_dynamic", "ballast", "bus_voltage", "target_ripple"),
 )
 
@@ -1032,16 +1034,16 @@ def _wire(v: V) -> Result:
     return Result(
         {
             "size_name": size.name,
-            "diameter": size.diameter,
-            "area": size.area,
-            "resistance_per_m_20": wire.resistance_per_metre(size.area, 20.0),
-            "resistance_per_m": r.resistance_per_m,
-            "iec60228_max_per_m": iec,
-            "loop_resistance": r.loop_resistance,
-            "drop": r.drop,
+            "diameter_m": size.diameter,
+            "area_m2": size.area,
+            "resistance_20_ohm_per_m": wire.resistance_per_metre(size.area, 20.0),
+            "resistance_ohm_per_m": r.resistance_per_m,
+            "iec60228_max_ohm_per_m": iec,
+            "loop_resistance_ohm": r.loop_resistance,
+            "drop_V": r.drop,
             "drop_fraction": r.drop_fraction,
-            "loss": r.loss,
-            "ampacity": amp,
+            "loss_W": r.loss,
+            "ampacity_A": amp,
             "ampacity_table": f"{table}: {tab.source}",
             "smallest_size": best.name if best else why,
         },
@@ -1098,21 +1100,21 @@ WIRE = Calculator(
     ),
     (
         Output("size_name", "Size", "text"),
-        Output("diameter", "Diameter (solid)", "length"),
-        Output("area", "Area", "area"),
-        Output("resistance_per_m_20", "Resistance per metre at 20 °C", "resistance"),
-        Output("resistance_per_m", "Resistance per metre at temperature", "resistance"),
-        Output("iec60228_max_per_m", "IEC 60228 class 5 maximum per metre", "resistance"),
-        Output("loop_resistance", "Loop resistance (out and back)", "resistance"),
-        Output("drop", "Voltage drop", "voltage"),
+        Output("diameter_m", "Diameter (solid)", "length"),
+        Output("area_m2", "Area", "area"),
+        Output("resistance_20_ohm_per_m", "Resistance per metre at 20 °C", "resistance"),
+        Output("resistance_ohm_per_m", "Resistance per metre at temperature", "resistance"),
+        Output("iec60228_max_ohm_per_m", "IEC 60228 class 5 maximum per metre", "resistance"),
+        Output("loop_resistance_ohm", "Loop resistance (out and back)", "resistance"),
+        Output("drop_V", "Voltage drop", "voltage"),
         Output("drop_fraction", "Drop (fraction of supply)", "ratio"),
-        Output("loss", "Power lost in the run", "power"),
-        Output("ampacity", "Guidance current for this size", "current"),
+        Output("loss_W", "Power lost in the run", "power"),
+        Output("ampacity_A", "Guidance current for this size", "current"),
         Output("ampacity_table", "From table", "text"),
         Output("smallest_size", "Smallest size for the current and limit", "text"),
     ),
     _wire,
-    main=("drop", "drop_fraction", "ampacity"),
+    main=("drop_V", "drop_fraction", "ampacity_A"),
     secondary=("temperature", "drop_limit", "ampacity_table"),
 )
 
@@ -1182,24 +1184,24 @@ def _mains(v: V) -> Result:
     rows: tuple[Mapping[str, Value], ...] = tuple(
         {
             "preset": k,
-            "voltage": p.voltage,
-            "frequency": p.frequency,
-            "low": p.low,
-            "high": p.high,
-            "peak_high": p.peak_high,
+            "voltage_V": p.voltage,
+            "frequency_Hz": p.frequency,
+            "low_V": p.low,
+            "high_V": p.high,
+            "peak_high_V": p.peak_high,
             "source": p.source,
         }
         for k, p in PRESETS.items()
     )
     p = PRESETS[str(v["region"])] if v["region"] != "custom" else None
-    vals: dict[str, Value] = {"voltage": f(v, "mains_voltage"), "frequency": f(v, "frequency")}
+    vals: dict[str, Value] = {"voltage_V": f(v, "mains_voltage"), "frequency_Hz": f(v, "frequency")}
     vn, lo, hi, _ = mains_range(v)
     vals.update(
         {
-            "low": lo,
-            "high": hi,
-            "peak": math.sqrt(2) * vn,
-            "peak_high": math.sqrt(2) * hi,
+            "low_V": lo,
+            "high_V": hi,
+            "peak_V": math.sqrt(2) * vn,
+            "peak_high_V": math.sqrt(2) * hi,
             "source": p.source if p else "custom values",
         }
     )
@@ -1212,26 +1214,26 @@ MAINS = Calculator(
     "Regional mains voltage, frequency and tolerance bands with their sources.",
     mains_params(),
     (
-        Output("voltage", "Nominal", "voltage"),
-        Output("frequency", "Frequency", "frequency"),
-        Output("low", "Low end", "voltage"),
-        Output("high", "High end", "voltage"),
-        Output("peak", "Peak at nominal", "voltage"),
-        Output("peak_high", "Peak at high end", "voltage"),
+        Output("voltage_V", "Nominal", "voltage"),
+        Output("frequency_Hz", "Frequency", "frequency"),
+        Output("low_V", "Low end", "voltage"),
+        Output("high_V", "High end", "voltage"),
+        Output("peak_V", "Peak at nominal", "voltage"),
+        Output("peak_high_V", "Peak at high end", "voltage"),
         Output("source", "Band from", "text"),
     ),
     _mains,
     mains=True,
     columns=(
         Output("preset", "Preset", "text"),
-        Output("voltage", "Nominal", "voltage"),
-        Output("frequency", "f", "frequency"),
-        Output("low", "Low", "voltage"),
-        Output("high", "High", "voltage"),
-        Output("peak_high", "Peak, high", "voltage"),
+        Output("voltage_V", "Nominal", "voltage"),
+        Output("frequency_Hz", "f", "frequency"),
+        Output("low_V", "Low", "voltage"),
+        Output("high_V", "High", "voltage"),
+        Output("peak_high_V", "Peak, high", "voltage"),
         Output("source", "Source", "text"),
     ),
-    main=("voltage", "low", "high"),
+    main=("voltage_V", "low_V", "high_V"),
     secondary=("mains_voltage", "frequency", "mains_tolerance"),
 )
 
@@ -1260,12 +1262,12 @@ def _light(v: V) -> Result:
         warnings.append("The module temperature is far from the test temperature: the linear thermal droop is rough.")
     power = opt(v, "input_power")
     vals: dict[str, Value] = {
-        "module_flux": one,
+        "module_flux_lm": one,
         "relative": one / m.flux,
-        "fixture_flux": flux,
-        "efficacy": flux / power if power else None,
-        "intensity": light.cone_intensity(flux, beam),
-        "illuminance_axis": light.cone_illuminance(flux, beam, dist),
+        "fixture_flux_lm": flux,
+        "efficacy_lm_per_W": flux / power if power else None,
+        "intensity_cd": light.cone_intensity(flux, beam),
+        "illuminance_axis_lx": light.cone_illuminance(flux, beam, dist),
         "illuminance_axis_fc": f"{light.footcandles(light.cone_illuminance(flux, beam, dist)):.4g} fc",
         "distance_ft": f"{light.feet(dist):.4g} ft",
     }
@@ -1274,9 +1276,9 @@ def _light(v: V) -> Result:
         e = light.disc_illuminance(flux, beam, dist)
         vals.update(
             {
-                "field_diameter": dia,
+                "field_diameter_m": dia,
                 "field_diameter_ft": f"{light.feet(dia):.4g} ft",
-                "illuminance_average": e,
+                "illuminance_average_lx": e,
                 "illuminance_average_fc": f"{light.footcandles(e):.4g} fc",
             }
         )
@@ -1285,14 +1287,14 @@ def _light(v: V) -> Result:
         dd = dist * k
         e_ax = light.cone_illuminance(flux, beam, dd)
         row: dict[str, Value] = {
-            "distance": dd,
+            "distance_m": dd,
             "distance_ft": f"{light.feet(dd):.3g} ft",
-            "illuminance_axis": e_ax,
+            "illuminance_axis_lx": e_ax,
             "illuminance_axis_fc": f"{light.footcandles(e_ax):.3g} fc",
         }
         if beam < math.pi * 0.999:
-            row["field_diameter"] = light.field_diameter(beam, dd)
-            row["illuminance_average"] = light.disc_illuminance(flux, beam, dd)
+            row["field_diameter_m"] = light.field_diameter(beam, dd)
+            row["illuminance_average_lx"] = light.disc_illuminance(flux, beam, dd)
         rows.append(row)
     notes = (
         "Flux model: flux = Φt·(I/It)·(1 − d·(I/It − 1))·(1 − k·(T − Tt)), with Φt, It, Tt, d and k from the "
@@ -1393,28 +1395,28 @@ LIGHT = Calculator(
         Param("distance", "Distance to the target", "length", "3 m", "", 0.01, 1e5, imperial="10 ft"),
     ),
     (
-        Output("module_flux", "Flux per module", "luminous_flux"),
+        Output("module_flux_lm", "Flux per module", "luminous_flux"),
         Output("relative", "Against the datasheet's flux", "ratio"),
-        Output("fixture_flux", "Fixture flux (in the beam)", "luminous_flux"),
-        Output("efficacy", "Efficacy at the mains", "efficacy", absent="no input power given"),
-        Output("intensity", "Intensity (uniform cone)", "luminous_intensity"),
-        Output("illuminance_axis", "Illuminance on axis (uniform cone)", "illuminance"),
+        Output("fixture_flux_lm", "Fixture flux (in the beam)", "luminous_flux"),
+        Output("efficacy_lm_per_W", "Efficacy at the mains", "efficacy", absent="no input power given"),
+        Output("intensity_cd", "Intensity (uniform cone)", "luminous_intensity"),
+        Output("illuminance_axis_lx", "Illuminance on axis (uniform cone)", "illuminance"),
         Output("illuminance_axis_fc", "… in foot-candles", "text"),
-        Output("field_diameter", "Field diameter", "length"),
+        Output("field_diameter_m", "Field diameter", "length"),
         Output("field_diameter_ft", "… in feet", "text"),
-        Output("illuminance_average", "Average over the field (flat disc)", "illuminance"),
+        Output("illuminance_average_lx", "Average over the field (flat disc)", "illuminance"),
         Output("illuminance_average_fc", "… in foot-candles", "text"),
         Output("distance_ft", "Distance in feet", "text"),
     ),
     _light,
     columns=(
-        Output("distance", "Distance", "length"),
+        Output("distance_m", "Distance", "length"),
         Output("distance_ft", "", "text"),
-        Output("illuminance_axis", "On axis", "illuminance"),
-        Output("illuminance_average", "Average", "illuminance"),
-        Output("field_diameter", "Field", "length"),
+        Output("illuminance_axis_lx", "On axis", "illuminance"),
+        Output("illuminance_average_lx", "Average", "illuminance"),
+        Output("field_diameter_m", "Field", "length"),
     ),
-    main=("fixture_flux", "illuminance_axis", "field_diameter"),
+    main=("fixture_flux_lm", "illuminance_axis_lx", "field_diameter_m"),
     secondary=("test_current", "test_temperature", "current_droop", "thermal_droop", "input_power", "optics"),
 )
 
@@ -1453,7 +1455,7 @@ def _camera(v: V) -> Result:
     rows: tuple[Mapping[str, Value], ...] = tuple(
         {
             "setting": s.label,
-            "time": s.shutter_time,
+            "time_s": s.shutter_time,
             "variation": s.variation,
             "ok": "yes" if s.ok else "no",
         }
@@ -1469,12 +1471,12 @@ def _camera(v: V) -> Result:
     )
     return Result(
         {
-            "shutter_time": tau,
-            "ripple_frequency": ripple,
+            "shutter_time_s": tau,
+            "ripple_frequency_Hz": ripple,
             "variation": var,
             "exposure_low": lo,
             "exposure_high": hi,
-            "beat": camera.beat_frequency(ripple, fps),
+            "beat_Hz": camera.beat_frequency(ripple, fps),
             "verdict": "under the threshold" if ok else "over the threshold",
             "safe": "; ".join(f"{format_value(a, 'time', 3)}–{format_value(b, 'time', 3)}" for a, b in ranges)
             or "none",
@@ -1547,12 +1549,12 @@ CAMERA = Calculator(
         ),
     ),
     (
-        Output("shutter_time", "Shutter time", "time"),
-        Output("ripple_frequency", "Ripple frequency", "frequency"),
+        Output("shutter_time_s", "Shutter time", "time"),
+        Output("ripple_frequency_Hz", "Ripple frequency", "frequency"),
         Output("variation", "Exposure variation, worst phase", "ratio"),
         Output("exposure_low", "Darkest frame / mean", "ratio"),
         Output("exposure_high", "Brightest frame / mean", "ratio"),
-        Output("beat", "Shows at", "frequency"),
+        Output("beat_Hz", "Shows at", "frequency"),
         Output("verdict", "Against your threshold", "text"),
         Output("safe", "Shutter times under it", "text"),
         Output("zero", "No variation at", "text"),
@@ -1562,7 +1564,7 @@ CAMERA = Calculator(
     mode="shutter",
     columns=(
         Output("setting", "Shutter", "text"),
-        Output("time", "Time", "time"),
+        Output("time_s", "Time", "time"),
         Output("variation", "Variation", "ratio"),
         Output("ok", "Under", "text"),
     ),
@@ -1598,9 +1600,9 @@ def _harmonics(v: V) -> Result:
         rows.append(
             {
                 "order": float(n),
-                "limit": lim,
-                "limit_pct": lim / i1 if i1 > 0 else None,
-                "measured": given * i1 if given is not None else None,
+                "limit_A": lim,
+                "limit_ratio": lim / i1 if i1 > 0 else None,
+                "measured_A": given * i1 if given is not None else None,
                 "status": verdict.status[n] if given is not None else "",
             }
         )
@@ -1618,7 +1620,7 @@ def _harmonics(v: V) -> Result:
     return Result(
         {
             "band": verdict.band,
-            "fundamental": i1,
+            "fundamental_A": i1,
             "verdict": ("pass" if verdict.passed else "over a limit") if some else "no harmonics typed",
             "applies": "yes" if verdict.applies else "guide only (not 220-240 V)",
         },
@@ -1682,7 +1684,7 @@ HARMONICS = Calculator(
     ),
     (
         Output("band", "Rules that apply", "text"),
-        Output("fundamental", "Fundamental used", "current"),
+        Output("fundamental_A", "Fundamental used", "current"),
         Output("verdict", "Typed harmonics", "text"),
         Output("applies", "Binding at this voltage", "text"),
     ),
@@ -1690,9 +1692,9 @@ HARMONICS = Calculator(
     mains=True,
     columns=(
         Output("order", "Order", "count"),
-        Output("limit", "Limit", "current"),
-        Output("limit_pct", "of I₁", "ratio"),
-        Output("measured", "Typed", "current"),
+        Output("limit_A", "Limit", "current"),
+        Output("limit_ratio", "of I₁", "ratio"),
+        Output("measured_A", "Typed", "current"),
         Output("status", "", "text"),
     ),
     main=("verdict", "band", "applies"),

@@ -8,7 +8,12 @@ them out as TypeScript declarations (``lampbook/assets/protocol.d.ts``) that the
 page scripts are type-checked against, so Python stays the one source.
 
 Numbers are SI floats (JSON numbers); an unbounded or undefined number arrives
-as ``null`` and its path is listed under ``unbounded``. Fields marked
+as ``null`` and its path is listed under ``unbounded``. Every numeric key names
+its unit at its end (``ripple_pp_V``, ``led_current_avg_A``, ``area_m2``,
+``resistance_ohm_per_m``, ``theta_ja_K_per_W``); quantities the trade states in
+percent end with ``_pct`` and are 0-100 (``percent_flicker_pct``); a key with no
+unit is a dimensionless fraction (0-1) or a count (README, "Numbers in the JSON";
+``tests/test_protocol.py`` walks every answer for it). Fields marked
 ``NotRequired`` may be absent. Where the review's answer nests parts that only
 some designs have (faults, emissions, light, camera), the declaration names the
 field and leaves its inside as ``object`` (``unknown`` in TypeScript): the page
@@ -110,6 +115,17 @@ class CalculatorDecl(TypedDict):
     main: list[str]
 
 
+class CalculatorBlock(TypedDict):
+    """What a calculator block in a page carries as JSON beside its form: the
+    declaration the page builds it from and the answer computed at build time
+    (shown until the engine answers)."""
+
+    id: str  # the block's element id, lb-<calculator>-<n>
+    calculator: str
+    declaration: CalculatorDecl
+    answer: "ComputeAnswer"
+
+
 class RegionPreset(TypedDict):
     voltage: str
     frequency: str
@@ -192,7 +208,8 @@ class OperatingPoint(TypedDict):
     string_current_avg_A: float
     input_power_W: float
     led_power_W: float
-    power_factor: NotRequired[float]  # mains designs
+    power_factor: NotRequired[float]  # mains designs (a fraction)
+    percent_flicker_pct: NotRequired[float]  # mains designs, 0-100
 
 
 class CheckItem(TypedDict):

@@ -91,6 +91,15 @@ export interface CalculatorDecl {
   main: string[];
 }
 
+/** What a calculator block in a page carries as JSON beside its form: the declaration the page builds it from and the answer computed at build time (shown until the engine answers). */
+export interface CalculatorBlock {
+  /** the block's element id, lb-<calculator>-<n> */
+  id: string;
+  calculator: string;
+  declaration: CalculatorDecl;
+  answer: ComputeAnswer;
+}
+
 export interface RegionPreset {
   voltage: string;
   frequency: string;
@@ -176,8 +185,10 @@ export interface OperatingPoint {
   string_current_avg_A: number;
   input_power_W: number;
   led_power_W: number;
-  /** mains designs */
+  /** mains designs (a fraction) */
   power_factor?: number;
+  /** mains designs, 0-100 */
+  percent_flicker_pct?: number;
 }
 
 export interface CheckItem {

@@ -11,6 +11,7 @@ import { join } from "node:path";
 import { pathToFileURL } from "node:url";
 
 const [, , dir, inZip, outZip, flag] = process.argv;
+/** @type {typeof import("pyodide")} the runtime the site ships, loaded from its folder */
 const { loadPyodide } = await import(pathToFileURL(join(dir, "pyodide.mjs")).href);
 const py = await loadPyodide({ indexURL: dir.endsWith("/") ? dir : dir + "/" });
 py.FS.writeFile("/tmp/in.zip", readFileSync(inZip));

@@ -11,6 +11,7 @@ import { pathToFileURL } from "node:url";
 
 const [, , dir, requestsFile, out] = process.argv;
 const base = dir.endsWith("/") ? dir : dir + "/";
+/** @type {typeof import("pyodide")} the runtime the site ships, loaded from its folder */
 const { loadPyodide } = await import(pathToFileURL(join(base, "pyodide.mjs")).href);
 const py = await loadPyodide({ indexURL: base, lockFileURL: base + "pyodide-lock.json", fullStdLib: false });
 // as the page's worker does: the core's wheel imported as a zip on sys.path
@@ -18,6 +19,7 @@ const entry = py.lockfile.packages.lampcalc;
 py.FS.writeFile("/lib/" + entry.file_name, new Uint8Array(readFileSync(join(base, entry.file_name))));
 py.pyimport("sys").path.insert(0, "/lib/" + entry.file_name);
 const api = py.pyimport("lampcalc.api");
+/** @type {{modules: string[], requests: import("./protocol.js").Request[]}} */
 const exercise = JSON.parse(readFileSync(requestsFile, "utf8"));
 for (const m of exercise.modules) py.pyimport(m);
 const answers = exercise.requests.map((r) => JSON.parse(api.handle(JSON.stringify(r))).ok);

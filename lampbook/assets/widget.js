@@ -8,6 +8,7 @@ import { initWorkbench } from "./workbench.js";
 
 /** @typedef {import("./protocol").Request} Request */
 /** @typedef {import("./protocol").CalculatorDecl} CalculatorDecl */
+/** @typedef {import("./protocol").CalculatorBlock} CalculatorBlock */
 /** @typedef {import("./protocol").ComputeAnswer} ComputeAnswer */
 /** @typedef {import("./protocol").Refusal} Refusal */
 /** @typedef {import("./engine").Reply} Reply */
@@ -144,7 +145,7 @@ function markStale(box, error) {
 // the declaration sits in a template, out of reach of the theme's script re-creation on page changes
 /**
  * @param {HTMLElement} box
- * @returns {{declaration: CalculatorDecl}}
+ * @returns {CalculatorBlock} what lampbook/blocks.py wrote beside the form
  */
 function dataOf(box) {
   const tpl = /** @type {HTMLTemplateElement | null} */ (box.querySelector("template.lb-tpl"));

@@ -34,7 +34,9 @@ test("si picks the prefix and keeps three figures", () => {
 
 test("one finds the element the markup always has, and names the selector when it is missing", () => {
   const el = { id: "x" };
-  const root = { querySelector: (sel) => (sel === ".lb-plot" ? el : null), querySelectorAll: () => [el, el] };
+  // a stand-in with the two methods one() and all() call, not a whole DOM node
+  const fake = { querySelector: (/** @type {string} */ sel) => (sel === ".lb-plot" ? el : null), querySelectorAll: () => [el, el] };
+  const root = /** @type {ParentNode} */ (/** @type {unknown} */ (fake));
   assert.equal(one(root, ".lb-plot"), el);
   assert.throws(() => one(root, ".lb-bench-app"), /no \.lb-bench-app in the page/);
   assert.deepEqual([...all(root, ".any")], [el, el]);

@@ -16,15 +16,21 @@ import { pathToFileURL } from "node:url";
 
 const args = process.argv.slice(2);
 const [dir, wheels, core, tests] = args.splice(0, 4);
-let engine = null;
-let full = null;
-if (args[0] === "--engine") [, engine, full] = args.splice(0, 3);
+/** @type {{engine: string, full: string} | null} the site's engine folder and the full standard library's zip */
+let siteEngine = null;
+if (args[0] === "--engine") {
+  const [, engine, full] = args.splice(0, 3);
+  siteEngine = { engine, full };
+}
 const restored = args[0] === "--restored";
 if (restored) args.shift();
 const files = args;
+/** @type {typeof import("pyodide")} the runtime the site ships, loaded from its folder */
 const { loadPyodide } = await import(pathToFileURL(join(dir, "pyodide.mjs")).href);
+/** @type {Parameters<typeof loadPyodide>[0]} */
 const opts = { indexURL: dir.endsWith("/") ? dir : dir + "/" };
-if (engine) opts.stdLibURL = join(engine, "python_stdlib.zip");
+if (siteEngine) opts.stdLibURL = join(siteEngine.engine, "python_stdlib.zip");
+/** @type {Awaited<ReturnType<typeof loadPyodide>>} */
 let py;
 if (restored) {
   const first = await loadPyodide({ ...opts, _makeSnapshot: true });
@@ -38,13 +44,15 @@ if (restored) {
 } else {
   py = await loadPyodide(opts);
 }
-if (engine) {
+if (siteEngine) {
   if (!restored) {
     py.FS.writeFile("/lib/" + basename(core), new Uint8Array(readFileSync(core)));
     py.pyimport("sys").path.insert(0, "/lib/" + basename(core));
   }
   // the core's module names (LAMPBOOK_CORE_MODULES, a JSON list): nothing but the core may load stdlib here
-  py.globals.set("core_modules", py.toPy(JSON.parse(process.env.LAMPBOOK_CORE_MODULES)));
+  const listed = process.env.LAMPBOOK_CORE_MODULES;
+  if (!listed) throw new Error("--engine needs LAMPBOOK_CORE_MODULES: the core's modules as a JSON list");
+  py.globals.set("core_modules", py.toPy(JSON.parse(listed)));
   console.log(py.runPython(`
 import importlib, json, sys
 for m in core_modules:
@@ -55,7 +63,7 @@ bad = [n for n in CALCULATORS if not json.loads(api.handle(json.dumps({"calculat
 assert not bad, bad
 "trimmed library: %d core modules imported, %d calculators answered" % (len(core_modules), len(CALCULATORS))
 `));
-  py.FS.writeFile("/lib/rest-of-stdlib.zip", new Uint8Array(readFileSync(full)));
+  py.FS.writeFile("/lib/rest-of-stdlib.zip", new Uint8Array(readFileSync(siteEngine.full)));
   py.runPython(`
 import sys, zipimport
 REST = "/lib/rest-of-stdlib.zip"
@@ -92,7 +100,7 @@ sys.addaudithook(_who)
 `);
 }
 const site = py.runPython("import sysconfig; sysconfig.get_paths()['purelib']");
-if (!engine) {
+if (!siteEngine) {
   for (const w of [core]) py.unpackArchive(new Uint8Array(readFileSync(w)), "wheel", { extractDir: site });
 }
 for (const w of readdirSync(wheels).filter((f) => f.endsWith(".whl")).map((f) => join(wheels, f))) {
@@ -126,7 +134,7 @@ import lampcalc
 print("lampcalc from", lampcalc.__file__, "on Python", sys.version.split()[0], sys.platform)
 pytest.main(["-q", "-p", "no:cacheprovider", "--strict-markers", *${JSON.stringify(files.map((f) => basename(f)))}])
 `);
-if (engine) {
+if (siteEngine) {
   const outside = py.runPython(`
 import json
 json.dumps(sorted(m for m in core_imports if (getattr(sys.modules.get(m), "__spec__", None) is not None

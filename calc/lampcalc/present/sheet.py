@@ -50,7 +50,7 @@ OPERATING_ROWS: tuple[tuple[str, str, str], ...] = (
     ("String current, average", "string_current_avg_A", "current"),
     ("Bus voltage, average", "bus_voltage_avg_V", "voltage"),
     ("Bus ripple (p-p)", "ripple_pp_V", "voltage"),
-    ("Percent flicker", "percent_flicker", "percent"),
+    ("Percent flicker", "percent_flicker_pct", "percent"),
     ("Flicker index", "flicker_index", "number"),
     ("IEEE 1789 band", "ieee1789_band", "text"),
     ("Dropper current (rms)", "dropper_current_rms_A", "current"),
@@ -681,7 +681,8 @@ def camera_section(d: Design, ans: dict[str, Any]) -> Section:
         _some(
             Paragraph(
                 text(
-                    f"Light ripple at {c['ripple_frequency_Hz']:g} Hz, percent flicker {c['percent_flicker']:.1f} % "
+                    f"Light ripple at {c['ripple_frequency_Hz']:g} Hz, "
+                    f"percent flicker {c['percent_flicker_pct']:.1f} % "
                     f"(IEEE 1789: {c['ieee1789_band']}). Frame-to-frame exposure variation is the spread of one "
                     "frame's exposure over every phase of the mains against the camera's clock (they are not "
                     f"locked, so every phase comes round); threshold {_pct(thr)} (from the design file's ",

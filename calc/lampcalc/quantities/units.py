@@ -225,10 +225,16 @@ def awg_area(n: int) -> float:
 #: A plain number with no unit (not offered as a kind of quantity of its own).
 NUMBER = Dimension("number", "", "4.7", (), (), plain_ok=True, use_prefixes=False, forms=("4700", "0,22"))
 
+#: A quantity the trade states in percent and the JSON gives as 0-100 (keys ending ``_pct``: percent
+#: flicker and its IEEE 1789 limits); only for outputs, never offered as a kind of input.
+PERCENT = Dimension("percent", "%", "4 %", (), (("%", 1.0),), plain_ok=True, use_prefixes=False)
+
 
 def dimension(name: str) -> Dimension:
     if name == "number":
         return NUMBER
+    if name == "percent":
+        return PERCENT
     try:
         return DIMENSIONS[name]
     except KeyError:
