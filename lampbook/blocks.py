@@ -93,7 +93,7 @@ def parse_block(index: int, body: str) -> Block:
 
 def _answer(index: int, calc: str, inputs: dict[str, str]) -> ComputeAnswer:
     """The block's answer from the core's typed entry point; a refusal is the block's error."""
-    ans = answer(calc, inputs)
+    ans = answer(calc, inputs, html=True)
     if not ans["ok"]:
         e = ans["errors"][0]
         raise BlockError(
@@ -213,7 +213,7 @@ def render(block: Block, safety_url: str | None) -> str:
         )
         + "</form>\n"
         f'<div class="lb-result"><table class="lb-out"><tbody>{"".join(outs)}</tbody></table>'
-        '<div class="lb-rows"></div><div class="lb-plot"></div>'
+        f'<div class="lb-rows">{ans.get("rows_html", "")}</div><div class="lb-plot"></div>'
         f'<ul class="lb-warn">{"".join(f"<li>{_esc(w)}</li>" for w in ans["warnings"])}</ul>'
         '<details class="lb-notes"><summary>How this is worked out</summary>'
         f"<ul>{''.join(f'<li>{_esc(n)}</li>' for n in ans['notes'])}</ul></details>"

@@ -141,6 +141,42 @@ def test_calculator_computes_after_input_change(
     assert not v.foreign and not v.errors
 
 
+def test_table_of_options_as_the_core_draws_it(demo: tuple[Path, Server], browser: object) -> None:
+    """The page shows the core's table of options (one renderer for the sheet, the build and the page):
+    each cell labelled with its column for the phone's cards, and a table the reader opened stays open
+    when the answer changes."""
+    v = Visit(browser, demo[1].url, viewport={"width": 390, "height": 844}, is_mobile=True)
+    v.open("calculators/strings/")
+    v.ready()
+    box = "lb-string-1"
+    v.computed(box, 0)
+    v.set(box, "supply_voltage", "36 V")
+    expected = compute("string", block_inputs(v, box))
+    assert expected["ok"] and expected["rows"]
+    details = v.page.locator(f"#{box} .lb-rows details.lb-options")
+    assert details.locator("summary").inner_text() == f"Every option ({len(expected['rows'])})"
+    details.locator("summary").click()
+    table = details.locator("table.lb-cards[data-labelled]")
+    heads = table.locator("thead th").all_inner_texts()
+    cells = table.locator("tbody tr").first.locator("td")
+    assert cells.evaluate_all("tds => tds.map(td => td.dataset.label)") == heads
+    first = expected["rows_display"][0]
+    shown = [t.replace("\u00a0", " ") for t in cells.all_inner_texts()]
+    assert shown == [first[c.name] for c in _columns("string", expected)]
+    v.set(box, "supply_voltage", "48 V")
+    assert v.page.locator(f"#{box} .lb-rows details.lb-options[open]").count() == 1
+    assert v.page.evaluate("document.documentElement.scrollWidth") <= 390
+    assert not v.foreign and not v.errors
+
+
+def _columns(calc: str, ans: dict[str, object]) -> list[object]:
+    from lampcalc.calculators import CALCULATORS
+
+    rows = ans["rows"]
+    assert isinstance(rows, list)
+    return [c for c in CALCULATORS[calc].columns if any(r[c.name] is not None for r in rows)]
+
+
 @pytest.mark.parametrize(
     ("value", "needle"),
     [

@@ -377,3 +377,69 @@ def test_a_calculator_block_carries_its_declared_data() -> None:
     data = json.loads(found.group(1))
     assert conforms(data, protocol.CalculatorBlock) == []
     assert data["answer"] == ask({"calculator": "ripple", "inputs": {"capacitance": "220 uF"}})
+
+
+class _TableReader:
+    """Headers and cell texts of the tables in a piece of HTML, read with the standard library's parser
+    (not our renderer), with the summary line of a folded table."""
+
+    def __init__(self, text: str) -> None:
+        from html.parser import HTMLParser
+
+        self.headers: list[str] = []
+        self.rows: list[list[str]] = []
+        self.summary = ""
+        out = self
+        where: list[str] = []
+
+        class P(HTMLParser):
+            def handle_starttag(self, tag: str, attrs: list[tuple[str, str | None]]) -> None:
+                where.append(tag)
+                if tag == "tr" and "tbody" in where:
+                    out.rows.append([])
+                if tag in ("th", "td"):
+                    (out.headers if tag == "th" else out.rows[-1]).append("")
+
+            def handle_endtag(self, tag: str) -> None:
+                while where and where.pop() != tag:
+                    pass
+
+            def handle_data(self, data: str) -> None:
+                if where and where[-1] == "summary":
+                    out.summary += data
+                elif where and where[-1] == "th":
+                    out.headers[-1] += data
+                elif where and where[-1] == "td":
+                    out.rows[-1][-1] += data
+
+        P().feed(text)
+
+
+@pytest.mark.parametrize(
+    ("name", "inputs"),
+    [
+        ("string", {"supply": "cv", "supply_voltage": "36 V"}),
+        ("string", {"supply": "cc", "driver_current": "700 mA"}),
+        ("dropper", {"stock_capacitance": "0.47 uF"}),
+    ],
+)
+def test_the_page_gets_the_table_of_options_drawn_by_the_core(name: str, inputs: dict[str, str]) -> None:
+    """One table renderer: the page's answer carries the table of options as the core draws it, with a
+    column for each declared column that has a value and each cell as the answer reads it; scripts
+    (the command line's JSON) get the numbers without the markup."""
+    ans = json.loads(handle(json.dumps({"kind": "compute", "calculator": name, "inputs": inputs})))
+    assert ans["ok"] and ans["rows"], ans
+    cols = [c for c in CALCULATORS[name].columns if any(r[c.name] is not None for r in ans["rows"])]
+    t = _TableReader(ans["rows_html"])
+    assert t.summary == f"Every option ({len(ans['rows'])})"
+    assert t.headers == [c.label for c in cols]
+    assert t.rows == [[r[c.name] for c in cols] for r in ans["rows_display"]]
+    assert ans["rows_html"].startswith('<details class="lb-options">')
+    from lampcalc.api import compute
+
+    assert "rows_html" not in compute(name, inputs)
+
+
+def test_no_table_of_options_where_there_are_none() -> None:
+    ans = json.loads(handle(json.dumps({"kind": "compute", "calculator": "ripple", "inputs": {}})))
+    assert ans["ok"] and not ans["rows"] and ans["rows_html"] == ""

@@ -15,7 +15,7 @@ from typing import Any, cast
 from .calculators import CALCULATORS, get
 from .errors import CalcError, InputError, InputErrors, NoSolutionError
 from .protocol import ComputeAnswer, DescribeAnswer, ErrorItem, Refusal, SweepAnswer
-from .schema import describe, evaluate, region_presets, sweep, to_json
+from .schema import Calculator, describe, evaluate, region_presets, sweep, to_json
 
 
 def _errors(e: CalcError) -> list[ErrorItem]:
@@ -31,13 +31,31 @@ def compute(name: str, inputs: Mapping[str, object]) -> dict[str, Any]:
     return cast(dict[str, Any], answer(name, inputs))
 
 
-def answer(name: str, inputs: Mapping[str, object]) -> ComputeAnswer | Refusal:
-    """A compute request's answer."""
+def answer(name: str, inputs: Mapping[str, object], html: bool = False) -> ComputeAnswer | Refusal:
+    """A compute request's answer; with ``html`` (the page's requests) also its table of options as the
+    page shows it (``rows_html``)."""
     try:
         calc = get(name)
-        return to_json(calc, evaluate(calc, inputs))
+        ans = to_json(calc, evaluate(calc, inputs))
     except CalcError as e:
         return {"calculator": name, "ok": False, "errors": _errors(e)}
+    if html:
+        ans["rows_html"] = options_table(calc, ans)
+    return ans
+
+
+def options_table(calc: Calculator, ans: ComputeAnswer) -> str:
+    """The answer's table of options in HTML: the columns that have a value in some row, each cell as the
+    answer reads it; "" when there is none."""
+    cols = [c for c in calc.columns if any(r.get(c.name) is not None for r in ans["rows"])]
+    if not ans["rows"] or not cols:
+        return ""
+    # here, not on top: a page's engine imports the presentation layer only when a table is drawn
+    from .present.html import options_html
+    from .present.model import Table, words
+
+    rows = tuple(tuple(words(r[c.name]) for c in cols) for r in ans["rows_display"])
+    return options_html(Table(tuple(c.label for c in cols), rows))
 
 
 def plot_points(name: str, plot: str, inputs: Mapping[str, object]) -> SweepAnswer | Refusal:
@@ -165,7 +183,7 @@ def _handle(text: str) -> str:
         name = str(req.get("calculator", ""))
         if kind == "sweep":
             return dumps(plot_points(name, str(req.get("plot", "")), inputs), sort_keys=True)
-        return dumps(answer(name, inputs), sort_keys=True)
+        return dumps(answer(name, inputs, html=True), sort_keys=True)
     from . import design_api
 
     bad = _study_options(req)

@@ -716,7 +716,7 @@ def _dropper(v: V) -> Result:
         "bleeder_discharge_time_s": t_b,
         "bleeder_power_W": vhi**2 / r_b,
         "bleeder_working_voltage_V": pk_hi,
-        "bleeder_parts": float(max(1, math.ceil(pk_hi / 200.0))),
+        "bleeder_parts": float(max(1, math.ceil(pk_hi / drop.SMALL_RESISTOR_LIMITING_V))),
         "switch_on_peak_A": drop.switch_on_peak(pk_hi, rs) if rs > 0 else None,
         "pulse_energy_J": drop.pulse_energy(c_hi, pk_hi) if rs > 0 else None,
         "series_resistor_power_W": p_series,

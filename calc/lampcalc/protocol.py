@@ -156,6 +156,9 @@ class ComputeAnswer(TypedDict):
     display: dict[str, str]  # the same values formatted for reading
     rows: list[dict[str, Value]]  # the table of options
     rows_display: list[dict[str, str]]
+    # the page's requests (lampcalc.api.handle): the table of options as the page shows it, rendered by the
+    # core's table renderer (lampcalc.present.html); "" when there is none
+    rows_html: NotRequired[str]
     applies: list[str]  # the outputs this answer's mode includes
     notes: list[str]
     warnings: list[str]

@@ -132,6 +132,7 @@ export interface ComputeAnswer {
   /** the table of options */
   rows: (Record<string, number | string | null>)[];
   rows_display: Record<string, string>[];
+  rows_html?: string;
   /** the outputs this answer's mode includes */
   applies: string[];
   notes: string[];

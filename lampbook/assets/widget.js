@@ -3,7 +3,7 @@
 // Answers computed at build time are already in the page; this makes them live.
 // Re-initialises on every page of instant navigation (the theme's document$), never twice per form.
 
-import { all, control, one } from "./lbutil.js";
+import { all, control, one, si } from "./lbutil.js";
 import { initWorkbench } from "./workbench.js";
 
 /** @typedef {import("./protocol").Request} Request */
@@ -223,10 +223,6 @@ function shown(box, decl, ans, name) {
   return ans.display[name];
 }
 
-// a short value is a number with its unit: it never breaks across lines
-/** @param {unknown} text */
-const num = (text) => (String(text).length <= 14 ? ' class="lb-num"' : ' class="lb-wide"');
-
 /** @param {unknown} s */
 function esc(s) {
   return String(s).replace(/[&<>"']/g, (c) => /** @type {Record<string, string>} */ ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c]);
@@ -271,28 +267,17 @@ function render(box, decl, ans) {
   }
   warn.innerHTML = ans.warnings.map((m) => `<li>${esc(m)}</li>`).join("");
   one(box, ".lb-notes ul").innerHTML = ans.notes.map((m) => `<li>${esc(m)}</li>`).join("");
-  const cols = decl.columns.filter((c) => ans.rows.some((r) => r[c.name] !== null && r[c.name] !== undefined));
-  // the full list of options folds away: the chosen one is in the answers above
+  // the table of options comes drawn by the core (its one table renderer); it folds away, the chosen
+  // option being in the answers above, and stays open if the reader opened it
   const rowsHost = one(box, ".lb-rows");
   const wasOpen = Boolean(rowsHost.querySelector("details[open]"));
-  rowsHost.innerHTML = ans.rows.length && cols.length
-    ? `<details class="lb-options"${wasOpen ? " open" : ""}><summary>Every option (${ans.rows.length})</summary><div class="lb-scroll"><table class="lb-table lb-cards" data-labelled="1"><thead><tr>${cols.map((c) => `<th>${esc(c.label)}</th>`).join("")}</tr></thead><tbody>` +
-      ans.rows_display.map((r) => `<tr>${cols.map((c) => `<td data-label="${esc(c.label)}"${num(r[c.name])}>${esc(r[c.name])}</td>`).join("")}</tr>`).join("") + "</tbody></table></div></details>"
-    : "";
-  for (const td of all(rowsHost, "td")) keepNumbers(td);
+  rowsHost.innerHTML = ans.rows_html ?? "";
+  const options = rowsHost.querySelector("details");
+  if (options && wasOpen) options.open = true;
+  labelTables(rowsHost);
 }
 
 // --- plots: the core's sweeps (lampcalc.schema.Sweep) drawn as SVG, axes with units ---------------------
-/** @type {[number, string][]} */
-const SI = [[1e-12, "p"], [1e-9, "n"], [1e-6, "µ"], [1e-3, "m"], [1, ""], [1e3, "k"], [1e6, "M"]];
-/** @param {number} x @param {string} unit */
-function si(x, unit) {
-  if (x === 0) return "0 " + unit;
-  let best = SI[4];
-  for (const p of SI) if (Math.abs(x) >= p[0]) best = p;
-  return `${+(x / best[0]).toPrecision(3)} ${best[1]}${unit}`;
-}
-
 // the points come from the core in one request ({"kind": "sweep"}); the page only draws them
 /** @param {HTMLElement} box @param {CalculatorDecl} decl @param {ComputeAnswer | Refusal} ans */
 async function plot(box, decl, ans) {

@@ -65,6 +65,11 @@ def capacitor_peak_voltage(voltage: float, bus: float, diode_drop: float) -> flo
     return max(SQRT2 * voltage - bus - 2 * diode_drop, 0.0)
 
 
+#: Limiting element voltage of a small film resistor when the design names none (from memory: typical of
+#: 0.25-0.6 W film parts; a datasheet's figure replaces it); a bleeder across more than this is split into parts
+SMALL_RESISTOR_LIMITING_V = 200.0
+
+
 def bleeder_max(capacitance: float, time: float, start: float, limit: float) -> float:
     """Largest bleeder that discharges ``capacitance`` from ``start`` volts to
     ``limit`` volts within ``time`` seconds: R <= t / (C ln(V0 / Vlim))."""

@@ -4,5 +4,5 @@ caller), and reference tables.
 
 Import rule: the standard library and the layers below (``quantities``,
 ``physics``, ``circuit``, ``fixture``); nothing imports this package except
-the entry points on top (``design_api``) and the build-time package.
+the entry points on top (``api``, ``design_api``) and the build-time package.
 """

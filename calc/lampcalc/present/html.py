@@ -106,6 +106,12 @@ def table_html(t: Table) -> str:
     )
 
 
+def options_html(t: Table) -> str:
+    """A calculator's table of options, folded away (the chosen option is in the answers above it); the
+    page inserts it as the engine sends it."""
+    return f'<details class="lb-options"><summary>Every option ({len(t.rows)})</summary>{table_html(t)}</details>'
+
+
 def figure_html(f: Figure, theme: HtmlTheme) -> str:
     paper = "".join(f".{c}{{fill:{theme.background};stroke:none}}" for c in f.paper)
     cls = "lb-schematic" if f.kind == "schematic" else "lb-fig"

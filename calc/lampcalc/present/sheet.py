@@ -15,7 +15,7 @@ from typing import Any
 
 from ..cautions import UNVERIFIED_NOTE, citation, daggered
 from ..fixture.design import Design
-from ..fixture.rules import FAIL, PASS, RULES, WARN, Status
+from ..fixture.rules import FAIL, PASS, RULES, SUPPLY_LOADING, WARN, Status
 from ..physics import wire as wr
 from ..physics.harmonic_limits import RULES as HARMONIC_RULES
 from ..quantities.units import format_value as fv
@@ -222,7 +222,8 @@ def bom(d: Design, ans: dict[str, Any]) -> list[list[str]]:
                 "Constant-voltage supply",
                 fv(sup.voltage, "voltage"),
                 f"±{sup.tolerance:.0%}",
-                f"≥ {fv(ans['worst_high']['led_current_avg_A'] / 0.8, 'current')} (listed supply; 80 % loading)",
+                f"≥ {fv(ans['worst_high']['led_current_avg_A'] / SUPPLY_LOADING, 'current')} "
+                f"(listed supply; {SUPPLY_LOADING * 100:g} % loading)",
             ]
         )
         return rows
