@@ -10,6 +10,7 @@ import threading
 from collections import Counter
 from collections.abc import Iterator
 from pathlib import Path
+from typing import Any
 
 import pytest
 from sites import _Quiet, build, launch, write_site
@@ -50,16 +51,21 @@ def served(tmp_path: Path) -> Iterator[CountingServer]:
     srv.close()
 
 
+def _first_visit(browser: object, url: str) -> Any:
+    """A fresh browser context opens URL and waits until the page is offline-ready (engine and cache)."""
+    page = browser.new_context(service_workers="allow").new_page()  # type: ignore[attr-defined]
+    page.goto(url)
+    page.wait_for_selector(".lb-engine[data-state*=offline]", timeout=180000)
+    return page
+
+
 def test_first_visit_sends_each_file_once(served: CountingServer) -> None:
     from playwright.sync_api import sync_playwright
 
     with sync_playwright() as p:
         b = launch(p)
         try:
-            ctx = b.new_context(service_workers="allow")
-            page = ctx.new_page()
-            page.goto(served.url)
-            page.wait_for_selector(".lb-engine[data-state*=offline]", timeout=180000)
+            page = _first_visit(b, served.url)
             twice = {k: n for k, n in served.bodies.items() if n > 1}
             assert not twice, twice
             for f in ("pyodide.asm.wasm", "python_stdlib.zip", "pyodide.asm.mjs", "lampcalc-0.1.0-py3-none-any.whl"):
@@ -110,10 +116,7 @@ def test_later_visits_restore_the_engine_from_its_snapshot(served: CountingServe
     with sync_playwright() as p:
         b = launch(p)
         try:
-            ctx = b.new_context(service_workers="allow")
-            page = ctx.new_page()
-            page.goto(served.url)
-            page.wait_for_selector(".lb-engine[data-state*=offline]", timeout=180000)
+            page = _first_visit(b, served.url)
             first = _answers(page)
             ph = _phases(page)
             assert not ph.get("restored") and "snapshot" in ph, ph
