@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import html
 import math
+from collections.abc import Callable
 from typing import Any
 
 from ..fixture.design import Design
@@ -206,7 +207,9 @@ def nice_ticks(lo: float, hi: float, n: int = 4) -> list[float]:
         k += 1
 
 
-def _axes(x0: float, x1: float, y0: float, y1: float, box: tuple[float, float, float, float]) -> tuple[Any, Any]:
+def _axes(
+    x0: float, x1: float, y0: float, y1: float, box: tuple[float, float, float, float]
+) -> tuple[Callable[[float], float], Callable[[float], float]]:
     left, top, width, height = box
 
     def fx(x: float) -> float:
