@@ -126,7 +126,13 @@ async function store() {
   try {
     const snapshot = madeSnapshot;
     madeSnapshot = null;
-    if (snapshot && snapshotCache) await (await caches.open(snapshotCache)).put(SNAPSHOT_URL, new Response(/** @type {Uint8Array<ArrayBuffer>} */ (snapshot)));
+    if (snapshot && snapshotCache) {
+      // one snapshot on the device: one left by another build's engine goes (a page that a newer build's
+      // service worker took over while its engine started could otherwise leave one behind)
+      for (const k of await caches.keys())
+        if (k.startsWith("lampbook-snapshot-") && k !== snapshotCache) await caches.delete(k);
+      await (await caches.open(snapshotCache)).put(SNAPSHOT_URL, new Response(/** @type {Uint8Array<ArrayBuffer>} */ (snapshot)));
+    }
   } catch (e) {
     // no room: later visits start the engine afresh
   }
