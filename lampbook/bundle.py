@@ -247,7 +247,8 @@ def install_engine(
 def stamp_engine(site_dir: Path, snapshot: bool = True) -> str | None:
     """Write into SITE/engine/pyodide-lock.json (key ``lampbook.engine``) a digest of the
     engine as shipped (the runtime's files, the standard library as trimmed, the core's
-    wheel) and return it; with ``snapshot`` false, remove it and return None.
+    wheel, and the worker script that starts it) and return it; with ``snapshot`` false,
+    remove it and return None.
 
     The page's worker keeps, on the device, a memory snapshot of the engine it started
     (Python up, the core imported) under this digest, and restores it on later visits
@@ -262,6 +263,8 @@ def stamp_engine(site_dir: Path, snapshot: bool = True) -> str | None:
         wheel = lock["packages"]["lampcalc"]["file_name"]
         for name in (*RUNTIME_FILES, wheel):
             h.update(name.encode() + b"\0" + bytes.fromhex(sha256(eng / name)))
+        # how the worker starts the engine is part of the state a snapshot holds
+        h.update(b"worker.js\0" + bytes.fromhex(sha256(Path(__file__).resolve().parent / "assets" / "worker.js")))
         key = h.hexdigest()[:24]
         lock["lampbook"] = {"engine": key}
     else:

@@ -1,6 +1,6 @@
 // @ts-check
 // lampbook service worker: precaches the whole handbook so it opens and computes offline.
-// The file list, the version and the digests of the engine's files are written at build time;
+// The file list, the version, the digests of the engine's files and the engine's own digest are written at build time;
 // a new build gets a new cache as a whole.
 const PRECACHE = /*LAMPBOOK_PRECACHE*/null;
 /** @type {{version: string, files: string[], digests: Record<string, string>, engine: string | null}} */
