@@ -13,17 +13,9 @@ from collections.abc import Mapping
 from typing import Any, cast
 
 from .calculators import CALCULATORS, get
-from .errors import CalcError, InputError, InputErrors, NoSolutionError
-from .protocol import ComputeAnswer, DescribeAnswer, ErrorItem, Refusal, SweepAnswer
+from .errors import CalcError, error_items
+from .protocol import ComputeAnswer, DescribeAnswer, Refusal, SweepAnswer
 from .schema import Calculator, describe, evaluate, region_presets, sweep, to_json
-
-
-def _errors(e: CalcError) -> list[ErrorItem]:
-    if isinstance(e, InputErrors):
-        return [x.as_dict() for x in e.errors]
-    if isinstance(e, (InputError, NoSolutionError)):
-        return [e.as_dict()]
-    return [{"field": "", "value": "", "expected": "", "message": str(e)}]
 
 
 def compute(name: str, inputs: Mapping[str, object]) -> dict[str, Any]:
@@ -38,7 +30,7 @@ def answer(name: str, inputs: Mapping[str, object], html: bool = False) -> Compu
         calc = get(name)
         ans = to_json(calc, evaluate(calc, inputs))
     except CalcError as e:
-        return {"calculator": name, "ok": False, "errors": _errors(e)}
+        return {"calculator": name, "ok": False, "errors": error_items(e)}
     if html:
         ans["rows_html"] = options_table(calc, ans)
     return ans
@@ -64,7 +56,7 @@ def plot_points(name: str, plot: str, inputs: Mapping[str, object]) -> SweepAnsw
         calc = get(name)
         centre, points = sweep(calc, plot, inputs)
     except CalcError as e:
-        return {"calculator": name, "ok": False, "errors": _errors(e)}
+        return {"calculator": name, "ok": False, "errors": error_items(e)}
     return {"ok": True, "calculator": name, "plot": plot, "centre": centre, "points": points}
 
 

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from typing import Any, cast
 
-from .errors import CalcError, InputError, InputErrors, NoSolutionError
+from .errors import CalcError, InputError, error_items
 from .fixture.check import check
 from .fixture.design import parse_design
 from .fixture.tolerance import study
@@ -45,12 +45,8 @@ def handle(kind: str, req: dict[str, Any]) -> DesignAnswer:
             kind,
             "one of describe, compute, sweep, check, study, sheet, design_schema, design_doc, design_toml, plan",
         )
-    except InputErrors as e:
-        return {"ok": False, "errors": [x.as_dict() for x in e.errors]}
-    except (InputError, NoSolutionError) as e:
-        return {"ok": False, "errors": [e.as_dict()]}
     except CalcError as e:
-        return {"ok": False, "errors": [{"field": "", "value": "", "expected": "", "message": str(e)}]}
+        return {"ok": False, "errors": error_items(e)}
 
 
 def _workbench(kind: str, req: dict[str, Any]) -> dict[str, Any]:

@@ -90,3 +90,13 @@ class ConvergenceError(CalcError, ArithmeticError):
         self.what = what
         self.why = why
         super().__init__(f"steady state did not converge ({what}): {why}")
+
+
+def error_items(e: CalcError) -> list[ErrorItem]:
+    """The ``errors`` of a refusal: one item per field at fault (field, value, expected, message); an error
+    that names no field is one item with only its message."""
+    if isinstance(e, InputErrors):
+        return [x.as_dict() for x in e.errors]
+    if isinstance(e, (InputError, NoSolutionError)):
+        return [e.as_dict()]
+    return [{"field": "", "value": "", "expected": "", "message": str(e)}]
