@@ -46,7 +46,7 @@ self.fetch = async (input, init) => {
 // only the one of its own build's engine. Anything wrong with it (unreadable, another runtime, a restored engine
 // that does not answer): it is deleted and the engine starts afresh.
 const SNAPSHOT_URL = base + "lampbook-snapshot.bin";
-/** @type {Uint8Array | null} made on this visit, stored once the page has its answer */
+/** @type {Uint8Array | null} made on this visit, stored once the engine has said it is ready */
 let madeSnapshot = null;
 /** @type {string | null} */
 let snapshotCache = null;
