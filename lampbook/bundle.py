@@ -315,13 +315,17 @@ def precache_list(site_dir: Path, languages: list[str] | None = None, source_map
 
 
 def write_service_worker(
-    site_dir: Path, template: str, languages: list[str] | None = None, source_maps: bool = False
+    site_dir: Path,
+    template: str,
+    languages: list[str] | None = None,
+    source_maps: bool = False,
+    engine: str | None = None,
 ) -> str:
     """Write SITE/sw.js: the precache list, the build's version (a digest of every
     precached file), the digests of the engine's files, by which the service
     worker takes over the copies the engine has just downloaded instead of fetching
-    them again, and the engine's digest (see :func:`stamp_engine`), whose snapshot
-    it keeps when it clears older builds' caches."""
+    them again, and ``engine``, the engine's digest (:func:`stamp_engine`), whose
+    snapshot it keeps when it clears older builds' caches."""
     files = precache_list(site_dir, languages, source_maps)
     h = hashlib.sha256()
     digests = {}
@@ -332,8 +336,6 @@ def write_service_worker(
         if rel.startswith("engine/"):
             digests[rel] = d.hexdigest()
     version = h.hexdigest()[:16]
-    lock = site_dir / "engine" / "pyodide-lock.json"
-    engine = json.loads(lock.read_text()).get("lampbook", {}).get("engine") if lock.is_file() else None
     manifest = json.dumps({"version": version, "files": files, "digests": digests, "engine": engine}, sort_keys=True)
     (site_dir / "sw.js").write_text(template.replace("/*LAMPBOOK_PRECACHE*/null", manifest))
     return version

@@ -1,11 +1,9 @@
 // Byte-compile Python files in a zip with Pyodide itself (build time, on Node).
-// usage: node pycompile.mjs PYODIDE_DIR IN_ZIP OUT_ZIP [--keep-source | --core]
-// Each .py becomes a sourceless .pyc (unchecked-hash, so no timestamps) at the same path;
-// with --keep-source the .py stays beside it (zipimport prefers the .pyc and tracebacks
-// still show the source). The standard library's code objects name their files where the
-// runtime keeps that library (/lib/python3.14/...); with --keep-source or --core (the core's
-// wheel) they name them by their place in the zip. Files that do not compile are kept as
-// source. The output is deterministic.
+// usage: node pycompile.mjs PYODIDE_DIR IN_ZIP OUT_ZIP [--core]
+// Each .py becomes a sourceless .pyc (unchecked-hash, so no timestamps) at the same path.
+// The standard library's code objects name their files where the runtime keeps that library
+// (/lib/python3.14/...); with --core (the core's wheel) they name them by their place in the
+// zip. Files that do not compile are kept as source. The output is deterministic.
 import { readFileSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
 import { pathToFileURL } from "node:url";
@@ -15,8 +13,7 @@ const [, , dir, inZip, outZip, flag] = process.argv;
 const { loadPyodide } = await import(pathToFileURL(join(dir, "pyodide.mjs")).href);
 const py = await loadPyodide({ indexURL: dir.endsWith("/") ? dir : dir + "/" });
 py.FS.writeFile("/tmp/in.zip", readFileSync(inZip));
-py.globals.set("keep_source", flag === "--keep-source");
-py.globals.set("prefix", flag === "--keep-source" || flag === "--core" ? "" : "/lib/python3.14/");
+py.globals.set("prefix", flag === "--core" ? "" : "/lib/python3.14/");
 const kept = py.runPython(`
 import importlib.util, importlib._bootstrap_external as ext, zipfile
 kept = []
@@ -36,8 +33,6 @@ with zipfile.ZipFile("/tmp/in.zip") as src, zipfile.ZipFile("/tmp/out.zip", "w",
             except SyntaxError:
                 kept.append(name)
             else:
-                if keep_source:
-                    put(out, name, data)
                 data = bytes(ext._code_to_hash_pyc(code, importlib.util.source_hash(data), False))
                 name = name[:-3] + ".pyc"
         put(out, name, data)

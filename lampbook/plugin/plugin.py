@@ -238,7 +238,7 @@ class LampbookPlugin(BasePlugin[LampbookConfig]):  # type: ignore[no-untyped-cal
                 )
                 t = bundle.trim_engine_stdlib(site, cache, list(self.config.stdlib_modules), designs)
                 log.info("standard library trimmed to %d of %d files (%d bytes)", t["files"], t["of"], t["bytes"])
-            bundle.stamp_engine(site, self.config.engine_snapshot)
+            engine_key = bundle.stamp_engine(site, self.config.engine_snapshot)
         except bundle.BundleError as e:
             raise PluginError(f"lampbook: {e}") from None
         langs = self.config.precache_search_languages
@@ -247,6 +247,7 @@ class LampbookPlugin(BasePlugin[LampbookConfig]):  # type: ignore[no-untyped-cal
             (ASSETS / "sw.js").read_text(),
             [str(x) for x in langs] if langs is not None else _search_languages(config),
             self.config.precache_source_maps,
+            engine_key,
         )
         if self.config.compress:
             bundle.write_compressed(site, Path(config.config_file_path).parent / self.config.cache_dir)
